@@ -1,0 +1,76 @@
+/**
+ * Seeded stratified k-fold plans. Every trial is in exactly one test fold; each class is dealt
+ * round-robin over the folds after a seeded shuffle, so per-class counts in any two folds differ
+ * by at most one and fold sizes differ by at most one (as in stratified k-fold generally, e.g.
+ * Kohavi 1995, IJCAI, "A study of cross-validation and bootstrap for accuracy estimation").
+ */
+import { ParamError, ShapeError } from '../types';
+import { deriveSeed, mulberry32, shuffleInPlace } from './random';
+
+/** One split: trial indices (ascending) used for fitting and for testing. */
+export interface Fold {
+  train: Int32Array;
+  test: Int32Array;
+}
+
+/** A full partition of the trials into k test folds. */
+export interface FoldPlan {
+  k: number;
+  seed: number;
+  folds: Fold[];
+}
+
+/**
+ * Stratified k-fold split. Classes are taken in ascending label order; within a class the
+ * trials are shuffled by mulberry32(seed) and dealt to folds 0, 1, ..., k-1, 0, ... continuing
+ * where the previous class stopped.
+ * @param labels class index per trial (any small non-negative integers)
+ * @param k number of folds, 2 <= k <= trials
+ */
+export function stratifiedKFold(labels: Uint8Array, k: number, seed: number): FoldPlan {
+  const n = labels.length;
+  if (!Number.isInteger(k) || k < 2) throw new ParamError('k', `expected an integer >= 2, got ${k}`);
+  if (k > n) throw new ParamError('k', `expected at most the number of trials (${n}), got ${k}`);
+  const rng = mulberry32(seed);
+  const foldOf = new Int32Array(n);
+  const classes = [...new Set(labels)].sort((a, b) => a - b);
+  let slot = 0;
+  for (const c of classes) {
+    const members: number[] = [];
+    for (let i = 0; i < n; i++) if (labels[i] === c) members.push(i);
+    shuffleInPlace(members, rng);
+    for (const i of members) { foldOf[i] = slot % k; slot++; }
+  }
+  const folds: Fold[] = [];
+  for (let f = 0; f < k; f++) {
+    const test: number[] = [], train: number[] = [];
+    for (let i = 0; i < n; i++) (foldOf[i] === f ? test : train).push(i);
+    folds.push({ train: Int32Array.from(train), test: Int32Array.from(test) });
+  }
+  return { k, seed, folds };
+}
+
+/**
+ * `repeats` independent stratified k-fold plans; repeat r uses seed `deriveSeed(seed, r)`.
+ */
+export function repeatedStratifiedKFold(labels: Uint8Array, k: number, repeats: number,
+                                        seed: number): FoldPlan[] {
+  if (!Number.isInteger(repeats) || repeats < 1) {
+    throw new ParamError('repeats', `expected an integer >= 1, got ${repeats}`);
+  }
+  return Array.from({ length: repeats }, (_, r) => stratifiedKFold(labels, k, deriveSeed(seed, r)));
+}
+
+/** Checks that a plan's indices lie in [0, trials) and that train and test are disjoint. */
+export function checkFoldPlan(plan: FoldPlan, trials: number): void {
+  plan.folds.forEach(({ train, test }, f) => {
+    const seen = new Uint8Array(trials);
+    for (const [name, idx] of [['train', train], ['test', test]] as const) {
+      for (const i of idx) {
+        if (i < 0 || i >= trials) throw new ShapeError(`plan.folds[${f}].${name}`, `index ${i} outside [0, ${trials})`);
+        if (seen[i]) throw new ShapeError(`plan.folds[${f}]`, `trial ${i} appears twice (train and test must be disjoint)`);
+        seen[i] = 1;
+      }
+    }
+  });
+}
