@@ -1,0 +1,33 @@
+import { ref, shallowRef, type Ref } from 'vue';
+import { toApiError, type ApiError } from '../api/http';
+
+/**
+ * Page-only list state: load with a fetcher, keep status and error, replace one row after an
+ * update. For lists several pages share, use a store instead.
+ */
+export function useAsyncList<T extends { id: number }>(fetcher: () => Promise<T[]>) {
+  const items = ref([]) as Ref<T[]>;
+  const status = ref<'idle' | 'loading' | 'ready' | 'error'>('idle');
+  const error = shallowRef<ApiError | null>(null);
+
+  async function load(): Promise<void> {
+    status.value = 'loading';
+    error.value = null;
+    try {
+      items.value = await fetcher();
+      status.value = 'ready';
+    } catch (e) {
+      error.value = toApiError(e);
+      status.value = 'error';
+    }
+  }
+
+  /** Put `row` in place of the row with its id, or append it. */
+  function upsert(row: T): void {
+    const i = items.value.findIndex((x) => x.id === row.id);
+    if (i >= 0) items.value.splice(i, 1, row);
+    else items.value.push(row);
+  }
+
+  return { items, status, error, load, upsert };
+}

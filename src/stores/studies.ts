@@ -1,0 +1,75 @@
+import { defineStore } from 'pinia';
+import { ref } from 'vue';
+import type { CreateStudyRequest, Study, UpdateStudyRequest } from '@shared/api/studies';
+import { archiveStudy, createStudy, getStudy, listStudies, updateStudy, type StudyFilter } from '../api/studies';
+import { toApiError, type ApiError } from '../api/http';
+
+type LoadStatus = 'idle' | 'loading' | 'ready' | 'error';
+
+/**
+ * Studies: the list (with its filter) and the study currently open. Mutations reject with
+ * ApiError so forms can show field errors; they also keep the list and the open study in step.
+ */
+export const useStudiesStore = defineStore('studies', () => {
+  const items = ref<Study[]>([]);
+  const filter = ref<StudyFilter>({ includeArchived: false });
+  const status = ref<LoadStatus>('idle');
+  const error = ref<ApiError | null>(null);
+
+  const current = ref<Study | null>(null);
+  const currentStatus = ref<LoadStatus>('idle');
+  const currentError = ref<ApiError | null>(null);
+
+  async function load(next: StudyFilter = filter.value): Promise<void> {
+    filter.value = { ...next };
+    status.value = 'loading';
+    error.value = null;
+    try {
+      items.value = await listStudies(filter.value);
+      status.value = 'ready';
+    } catch (e) {
+      error.value = toApiError(e);
+      status.value = 'error';
+    }
+  }
+
+  async function open(studyId: number): Promise<void> {
+    if (current.value?.id !== studyId) current.value = null;
+    currentStatus.value = 'loading';
+    currentError.value = null;
+    try {
+      current.value = await getStudy(studyId);
+      currentStatus.value = 'ready';
+    } catch (e) {
+      currentError.value = toApiError(e);
+      currentStatus.value = 'error';
+    }
+  }
+
+  function remember(study: Study): Study {
+    const i = items.value.findIndex((s) => s.id === study.id);
+    const hiddenByFilter = study.status === 'archived' && !filter.value.includeArchived;
+    if (i >= 0) {
+      if (hiddenByFilter) items.value.splice(i, 1);
+      else items.value.splice(i, 1, study);
+    } else if (!hiddenByFilter) {
+      items.value.unshift(study);
+    }
+    if (current.value?.id === study.id) current.value = study;
+    return study;
+  }
+
+  async function create(body: CreateStudyRequest): Promise<Study> {
+    return remember(await createStudy(body));
+  }
+
+  async function update(studyId: number, body: UpdateStudyRequest): Promise<Study> {
+    return remember(await updateStudy(studyId, body));
+  }
+
+  async function archive(studyId: number): Promise<Study> {
+    return remember(await archiveStudy(studyId));
+  }
+
+  return { items, filter, status, error, current, currentStatus, currentError, load, open, create, update, archive };
+});
