@@ -8,8 +8,7 @@ import {
   fitPipeline, take, takeLabels, type AnyStage, type FitContext,
 } from '../decoder/pipeline';
 import { ShapeError } from '../types';
-import { checkFoldPlan, type FoldPlan } from './folds';
-import { deriveSeed } from './random';
+import { checkFoldPlan, deriveSeed, type FoldPlan } from './folds';
 
 /** Stages to fit per fold, or a function making them (called once per fit). */
 export type Recipe = readonly AnyStage[] | (() => readonly AnyStage[]);

@@ -5,7 +5,7 @@
  * Kohavi 1995, IJCAI, "A study of cross-validation and bootstrap for accuracy estimation").
  */
 import { ParamError, ShapeError } from '../types';
-import { deriveSeed, mulberry32, shuffleInPlace } from './random';
+import { createRng } from '../linalg/random';
 
 /** One split: trial indices (ascending) used for fitting and for testing. */
 export interface Fold {
@@ -22,8 +22,8 @@ export interface FoldPlan {
 
 /**
  * Stratified k-fold split. Classes are taken in ascending label order; within a class the
- * trials are shuffled by mulberry32(seed) and dealt to folds 0, 1, ..., k-1, 0, ... continuing
- * where the previous class stopped.
+ * trials are shuffled by MT19937 seeded with `seed` (shared/linalg/random.ts) and dealt to
+ * folds 0, 1, ..., k-1, 0, ... continuing where the previous class stopped.
  * @param labels class index per trial (any small non-negative integers)
  * @param k number of folds, 2 <= k <= trials
  */
@@ -31,14 +31,14 @@ export function stratifiedKFold(labels: Uint8Array, k: number, seed: number): Fo
   const n = labels.length;
   if (!Number.isInteger(k) || k < 2) throw new ParamError('k', `expected an integer >= 2, got ${k}`);
   if (k > n) throw new ParamError('k', `expected at most the number of trials (${n}), got ${k}`);
-  const rng = mulberry32(seed);
+  const rng = createRng(seed >>> 0);
   const foldOf = new Int32Array(n);
   const classes = [...new Set(labels)].sort((a, b) => a - b);
   let slot = 0;
   for (const c of classes) {
     const members: number[] = [];
     for (let i = 0; i < n; i++) if (labels[i] === c) members.push(i);
-    shuffleInPlace(members, rng);
+    rng.shuffle(members);
     for (const i of members) { foldOf[i] = slot % k; slot++; }
   }
   const folds: Fold[] = [];
@@ -73,4 +73,22 @@ export function checkFoldPlan(plan: FoldPlan, trials: number): void {
       }
     }
   });
+}
+
+/**
+ * Derives an independent-looking 32-bit seed from a base seed and a path of small integers
+ * (repeat, fold, ...) by folding each through the murmur3 fmix32 finaliser (Appleby,
+ * MurmurHash3, public domain). Deterministic; gives every repeat and inner plan its own seed.
+ */
+export function deriveSeed(seed: number, ...path: number[]): number {
+  let h = (seed >>> 0) ^ 0x9e3779b9;
+  for (const p of [...path, path.length]) {
+    h = (h + Math.imul((p >>> 0) + 0x7f4a7c15, 0x85ebca6b)) >>> 0;
+    h ^= h >>> 16;
+    h = Math.imul(h, 0x85ebca6b) >>> 0;
+    h ^= h >>> 13;
+    h = Math.imul(h, 0xc2b2ae35) >>> 0;
+    h ^= h >>> 16;
+  }
+  return h >>> 0;
 }

@@ -9,9 +9,8 @@
 import type { AnyStage } from '../decoder/pipeline';
 import { ParamError, ShapeError } from '../types';
 import { runFold, type FoldResult } from './cross-validate';
-import { repeatedStratifiedKFold, stratifiedKFold } from './folds';
+import { deriveSeed, repeatedStratifiedKFold, stratifiedKFold } from './folds';
 import { logLoss } from './metrics';
-import { deriveSeed } from './random';
 
 /** How inner folds rank hyperparameters. */
 export type SelectBy = 'accuracy' | 'logLoss';
