@@ -15,13 +15,13 @@ import {
 import { checkRows } from '../stages/feature-rows';
 import { cholesky, choleskySolve, log1pExp, sigmoid } from './dense';
 
-export interface LogisticParams {
+export type LogisticParams = {
   /** Inverse regularisation strength (> 0); larger C, weaker penalty. Default 1. */
   C?: number;
   /** Gradient tolerance, relative to 1 + C·n. Default 1e-10. */
   tol?: number;
   maxIter?: number; // default 100
-}
+};
 
 export interface FittedLogistic extends Classifier<FeatureRows> {
   readonly weights: Float64Array; // [feature]

@@ -12,9 +12,9 @@ import {
 } from '../pipeline';
 import { checkRows } from './feature-rows';
 
-export interface SelectKBestParams {
+export type SelectKBestParams = {
   k: number;
-}
+};
 
 /** Which features were kept and every feature's F score. */
 export interface FittedSelectKBest extends Fitted<FeatureRows, FeatureRows> {
