@@ -75,7 +75,7 @@ const samples = SECONDS * RATE_HZ * CHANNELS;
 const figures = {
   bench: 'dsp',
   node: process.version,
-  loadAverage1m: os.loadavg()[0],
+  loadAverage1m: os.loadavg()[0] ?? 0,
   cores: os.cpus().length,
   streamingFilter: {
     design: 'butter 4th 8-30 Hz bandpass + iirnotch 50 Hz Q30 (5 sections)', channels: CHANNELS, sampleRateHz: RATE_HZ,

@@ -8,9 +8,10 @@
  */
 import type { Sos } from './sos';
 
-/** A complex number. */
+/** A complex number (design-time only). */
 export interface Complex { re: number; im: number }
 
+/** A transfer function as zeros, poles and gain (analog s-plane or digital z-plane). */
 export interface Zpk { z: Complex[]; p: Complex[]; k: number }
 
 const c = (re: number, im = 0): Complex => ({ re, im });
@@ -60,11 +61,13 @@ export function buttap(n: number): Zpk {
   return { z: [], p, k: 1 };
 }
 
+/** Low-pass prototype (cutoff 1 rad/s) -> low-pass with cutoff wo rad/s: s -> s/wo. */
 export function lp2lp({ z, p, k }: Zpk, wo: number): Zpk {
   const degree = p.length - z.length;
   return { z: z.map((v) => scale(v, wo)), p: p.map((v) => scale(v, wo)), k: k * wo ** degree };
 }
 
+/** Low-pass prototype -> high-pass with cutoff wo rad/s: s -> wo/s (zeros at infinity move to 0). */
 export function lp2hp({ z, p, k }: Zpk, wo: number): Zpk {
   const degree = p.length - z.length;
   const w = c(wo);
@@ -80,6 +83,10 @@ function shiftPair(xs: Complex[], wo: number): Complex[] {
   return [...xs.map((v, i) => add(v, roots[i]!)), ...xs.map((v, i) => sub(v, roots[i]!))];
 }
 
+/**
+ * Low-pass prototype -> band-pass with centre wo and bandwidth bw (rad/s): s -> (s² + wo²)/(s·bw);
+ * doubles the order.
+ */
 export function lp2bp({ z, p, k }: Zpk, wo: number, bw: number): Zpk {
   const degree = p.length - z.length;
   const zb = shiftPair(z.map((v) => scale(v, bw / 2)), wo);
@@ -87,6 +94,10 @@ export function lp2bp({ z, p, k }: Zpk, wo: number, bw: number): Zpk {
   return { z: zb, p: shiftPair(p.map((v) => scale(v, bw / 2)), wo), k: k * bw ** degree };
 }
 
+/**
+ * Low-pass prototype -> band-stop with centre wo and bandwidth bw (rad/s): s -> s·bw/(s² + wo²);
+ * doubles the order, zeros at ±j·wo.
+ */
 export function lp2bs({ z, p, k }: Zpk, wo: number, bw: number): Zpk {
   const degree = p.length - z.length;
   const h = c(bw / 2);
@@ -97,7 +108,10 @@ export function lp2bs({ z, p, k }: Zpk, wo: number, bw: number): Zpk {
   return { z: zb, p: shiftPair(p.map((v) => div(h, v)), wo), k: k * g.re };
 }
 
-/** Bilinear transform s = 2·fs·(z-1)/(z+1); zeros at infinity move to z = -1 (Nyquist). */
+/**
+ * Bilinear transform s = 2·fs·(z−1)/(z+1) of an analog zpk (fs in Hz, here SciPy's internal 2);
+ * zeros at infinity move to z = −1 (Nyquist).
+ */
 export function bilinear({ z, p, k }: Zpk, fs: number): Zpk {
   const degree = p.length - z.length;
   const fs2 = c(2 * fs);
@@ -169,7 +183,12 @@ function take(xs: Complex[], i: number): Complex {
   return xs.splice(i, 1)[0]!;
 }
 
-/** SciPy's `zpk2sos` with pairing 'nearest' for a digital system. */
+/**
+ * SciPy's `zpk2sos` with pairing 'nearest' for a digital system: the pole closest to the unit
+ * circle is paired with its nearest zero and placed in the last section, and so on inwards; the
+ * gain goes into the first section.
+ * @returns rows [b0, b1, b2, 1, a1, a2]
+ */
 export function zpk2sos(zpk: Zpk): Sos {
   let z = [...zpk.z];
   let p = [...zpk.p];
