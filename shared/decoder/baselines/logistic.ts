@@ -5,7 +5,9 @@
  * least squares) with an Armijo backtracking line search; the objective is strictly convex, so
  * the optimum is unique and does not depend on the solver. Meant for up to a few hundred
  * features (one (p+1)×(p+1) Cholesky per iteration).
- * Stopping rule: ‖gradient‖_∞ <= tol·(1 + C·n), or 100 iterations (then `converged` is false).
+ * Stopping rule: ‖gradient‖_∞ <= tol·(1 + C·n), or the Newton decrement gᵀH⁻¹g/2 falls to
+ * 1e-15·max(1, |objective|) (then one last full Newton step is taken), or `maxIter` iterations
+ * (then `converged` is false).
  */
 import { ParamError } from '../../types';
 import {
@@ -74,6 +76,12 @@ export function fitLogisticL2(x: FeatureRows, labels: Uint8Array, C: number, tol
     const step = choleskySolve(l, d, g);
     let slope = 0;
     for (let a = 0; a < d; a++) slope += g[a]! * step[a]!;
+    if (slope / 2 <= 1e-15 * Math.max(1, Math.abs(f))) {
+      // Newton decrement at round-off level (Boyd & Vandenberghe 2004, §9.5.1): the objective can
+      // no longer resolve progress, so take the pure Newton step and stop.
+      theta = Float64Array.from(theta, (v, a) => v - step[a]!);
+      return { weights: theta.slice(0, p), bias: theta[p]!, iterations: it + 1, converged: true };
+    }
     let t = 1, next = theta, zNext = new Float64Array(n), fNext = f;
     for (let ls = 0; ls < 60; ls++) {
       next = Float64Array.from(theta, (v, a) => v - t * step[a]!);
