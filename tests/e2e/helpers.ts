@@ -1,0 +1,75 @@
+/**
+ * Shared pieces of the browser tests: Debian's Chromium through playwright-core, a real server
+ * on a free port with a throw-away data folder, and signing in through the UI.
+ */
+import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { start, type ServerHandle } from '../../server/index';
+
+const ROOT = fileURLToPath(new URL('../..', import.meta.url));
+
+/** Password of the seeded demo accounts (server/config.ts DEFAULT_DEMO_PASSWORD). */
+export const DEMO_PASSWORD = 'aftercue-demo';
+
+/** A 1366x768 laptop screen: the size the client is designed for. */
+export const LAPTOP_VIEWPORT = { width: 1366, height: 768 };
+
+export function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: process.env.AFTERCUE_CHROMIUM ?? '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run',
+      '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+export interface TestServer {
+  url: string;
+  handle: ServerHandle;
+  stop(): Promise<void>;
+}
+
+/** Start Aftercue on port 0 with a fresh data folder (seeded demo accounts); stop removes the folder. */
+export async function startTestServer(): Promise<TestServer> {
+  const dataDir = mkdtempSync(join(tmpdir(), 'aftercue-e2e-'));
+  const handle = await start({ port: 0, dataDir, quiet: true });
+  return {
+    url: handle.url,
+    handle,
+    async stop() {
+      await handle.stop();
+      rmSync(dataDir, { recursive: true, force: true });
+    },
+  };
+}
+
+/** A fresh browser context (own cookies) at laptop size, with browser console errors collected. */
+export async function newPage(browser: Browser): Promise<{ context: BrowserContext; page: Page; consoleErrors: string[] }> {
+  const context = await browser.newContext({ viewport: LAPTOP_VIEWPORT });
+  const page = await context.newPage();
+  const consoleErrors: string[] = [];
+  page.on('console', (msg) => {
+    if (msg.type() === 'error') consoleErrors.push(msg.text());
+  });
+  page.on('pageerror', (err) => consoleErrors.push(err.message));
+  return { context, page, consoleErrors };
+}
+
+/** Sign in through the sign-in form, starting from `path` (the guard sends us to sign-in first). */
+export async function signInThroughUi(page: Page, baseUrl: string, email: string, path = '/studies'): Promise<void> {
+  await page.goto(`${baseUrl}${path}`);
+  await page.waitForURL(/\/sign-in\?redirect=/);
+  await page.locator('input[name="email"]').fill(email);
+  await page.locator('input[name="password"]').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((u) => u.pathname === path);
+}
+
+/** Where a test saves a screenshot: test-results/e2e/<name>.png (folder created). */
+export function screenshotPath(name: string): string {
+  const file = join(ROOT, 'test-results', 'e2e', `${name}.png`);
+  mkdirSync(dirname(file), { recursive: true });
+  return file;
+}
