@@ -101,6 +101,7 @@ export function asciiField(text: string, width: number, errorField: string): Uin
   return out;
 }
 
+/** English month abbreviations of EDF+ dates (dd-MMM-yyyy), upper case as the spec writes them. */
 export const MONTHS = ['JAN', 'FEB', 'MAR', 'APR', 'MAY', 'JUN', 'JUL', 'AUG', 'SEP', 'OCT', 'NOV', 'DEC'] as const;
 
 /** True when (year, month 1-12, day) is a real calendar date. */

@@ -95,10 +95,12 @@ export interface EdfReadOptions {
  *   so the largest allocation is 8 / bytesPerSample times the file size.
  */
 export const MAX_SIGNALS = 4096;
+/** Default opts.maxBytes of the readers: 512 MiB (about an hour of 64 channels at 1 kHz in 16 bits). */
 export const DEFAULT_MAX_BYTES = 512 * 1024 * 1024;
 
-/** Digital ranges of the two sample widths (two's complement). */
+/** Digital range of 16-bit EDF samples (two's complement). */
 export const EDF_DIGITAL_RANGE: readonly [number, number] = [-32768, 32767];
+/** Digital range of 24-bit BDF samples (two's complement). */
 export const BDF_DIGITAL_RANGE: readonly [number, number] = [-8388608, 8388607];
 
 /**

@@ -6,7 +6,7 @@
 import { ParamError, ShapeError, type Recording } from '../types';
 import { asciiField, formatDecimalField, formatTalSeconds, isCalendarDate, MONTHS } from './edf-fields';
 import { encodeTal } from './edf-tal';
-import { BDF_DIGITAL_RANGE, EDF_DIGITAL_RANGE } from './edf-types';
+import { BDF_DIGITAL_RANGE, EDF_DIGITAL_RANGE, MAX_SIGNALS } from './edf-types';
 
 /** Options of writeEdfPlus. */
 export interface WriteEdfPlusOptions {
@@ -117,6 +117,9 @@ export function writeEdfPlus(rec: Recording, opts: WriteEdfPlusOptions = {}): Ui
 
 function checkShape(rec: Recording): number {
   if (rec.data.length === 0) throw new ShapeError('data', 'expected at least one channel, got 0');
+  if (rec.data.length + 1 > MAX_SIGNALS) {
+    throw new ShapeError('data', `expected at most ${MAX_SIGNALS - 1} channels (plus the annotation signal), got ${rec.data.length}`);
+  }
   if (rec.channelNames.length !== rec.data.length) {
     throw new ShapeError('channelNames', `expected ${rec.data.length} names (one per channel), got ${rec.channelNames.length}`);
   }

@@ -45,6 +45,13 @@ describe('EDF+ byte-exact example (REFERENCES.md §7)', () => {
     expectClose((s.physicalMax - s.physicalMin) / (s.digitalMax - s.digitalMin), 0.1, { rtol: 1e-12 });
   });
 
+  it('reads the same values from an unaligned view of the bytes', () => {
+    const padded = new Uint8Array(bytes.length + 1);
+    padded.set(bytes, 1);
+    // Reference: edf_examples.json physical values; an odd byteOffset takes the DataView path.
+    expectAllClose(readEdf(padded.subarray(1)).data[0]!, fixture.edfplus.physical, { rtol: 1e-12, atol: 0 });
+  });
+
   it('parses the annotations and the time-keeping TALs', () => {
     const f = readEdf(bytes);
     // Reference: REFERENCES.md §7 record 0 = '+0' time keeping, '+0.5' 0x15 '2' 'T1', '+0.75' 'Eyes closed'.

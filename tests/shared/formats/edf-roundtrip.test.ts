@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { edfToRecording, readEdf, writeEdfPlus, type EdfFile } from '../../../shared/formats/edf';
+import { edfToRecording, readEdf, readEdfHeader, writeEdfPlus, type EdfFile } from '../../../shared/formats/edf';
+import { parseTals } from '../../../shared/formats/edf-tal';
 import { ParamError, ShapeError, type Recording } from '../../../shared/types';
 import { expectAllClose } from '../../helpers/all-close';
 import { readEegmmidb, skipWithoutRealData } from '../../helpers/real-data';
@@ -105,6 +106,20 @@ describe('EDF+C / BDF+C write then read', () => {
     // Reference: Kemp & Olivan 2003 §2.2.2: a TAL never crosses a record, so record 1 holds all 40.
     expect(file.annotations.length).toBe(40);
     expect(file.annotations.map((a) => a.text)).toEqual(rec.annotations.map((a) => a.text));
+  });
+
+  it('puts each annotation in the record its onset falls in, after the time-keeping TAL', () => {
+    const rec = synthetic(480, 1, 160);
+    rec.annotations = [{ onsetS: 2.5, durationS: 1, text: 'b' }, { onsetS: 0.25, durationS: null, text: 'a' }];
+    const bytes = writeEdfPlus(rec);
+    const h = readEdfHeader(bytes);
+    const slotBytes = h.signals[1]!.samplesPerRecord * 2;
+    const texts = Array.from({ length: h.records }, (_, r) => {
+      const from = h.headerBytes + r * h.recordBytes + 160 * 2;
+      return parseTals(bytes, from, from + slotBytes, `record ${r}`).map((t) => [t.onsetS, t.texts.join('|')]);
+    });
+    // Reference: Kemp & Olivan 2003 §2.2.4 (first TAL of every record keeps time); our rule: onset's own record.
+    expect(texts).toEqual([[[0, ''], [0.25, 'a']], [[1, '']], [[2, ''], [2.5, 'b']]]);
   });
 
   it('does not modify its input', () => {
