@@ -39,10 +39,13 @@ function fromBodyParser(err: unknown): AppError | null {
   }
 }
 
-/** Other client errors from Express' own middleware (http-errors with `expose`), e.g. a missing static file. */
+/**
+ * Other client errors from Express' own middleware (http-errors with a 4xx status), e.g. a missing
+ * static file. Their messages may hold file paths, so the answer uses a generic one.
+ */
 function fromHttpError(err: object): AppError | null {
   const status = (err as { status?: unknown }).status;
-  if (typeof status !== 'number' || status < 400 || status > 499 || (err as { expose?: unknown }).expose !== true) return null;
+  if (typeof status !== 'number' || !Number.isInteger(status) || status < 400 || status > 499) return null;
   return status === 404 ? new AppError('not-found', 'Not found', 404) : new AppError('bad-request', 'Bad request', status);
 }
 

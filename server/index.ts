@@ -14,7 +14,7 @@ import { createLogger } from './log';
 import { createServices, type Services } from './services';
 import { createMailService, type MailService } from './services/mail';
 import { seedIfEmpty, type SeedResult } from './services/seed';
-import type { RequestHandler } from 'express';
+import type { Express, RequestHandler } from 'express';
 
 export type { StartOptions } from './config';
 
@@ -23,6 +23,8 @@ export interface ServerHandle {
   url: string;
   port: number;
   httpServer: Server;
+  /** The Express app (its router stack lists every HTTP route). */
+  app: Express;
   db: Db;
   mail: MailService;
   /** Service layer, for in-process callers (WebSocket routes, the embedded bridge, tests). */
@@ -87,5 +89,5 @@ export async function start(opts: StartOptions = {}): Promise<ServerHandle> {
     return stopping;
   }
 
-  return { url, port, httpServer, db, mail, services, sessionMiddleware, config, seeded, stop };
+  return { url, port, httpServer, app, db, mail, services, sessionMiddleware, config, seeded, stop };
 }
