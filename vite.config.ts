@@ -20,7 +20,7 @@ export default defineConfig({
     rolldownOptions: {
       output: {
         // Element Plus and uPlot are large; keep them out of the app chunk so pages load lazily.
-        advancedChunks: {
+        codeSplitting: {
           groups: [
             { name: 'element-plus', test: /node_modules[\\/](element-plus|@element-plus)/ },
             { name: 'uplot', test: /node_modules[\\/]uplot/ },
