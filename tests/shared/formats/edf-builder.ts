@@ -121,3 +121,22 @@ export function signalFieldOffset(ns: number, name: keyof BuildSignal, i: number
   }
   throw new Error(name);
 }
+
+/**
+ * Invented recording for the written-file fixtures (make_written_edf.ts, read_written_edf.py):
+ * 3 channels at 200 Hz, 450 samples (2.25 s, so the last 1-s record is padded), sines in uV,
+ * a sub-second start and one non-ASCII annotation text.
+ */
+export function writtenRecording(): {
+  channelNames: string[]; sampleRateHz: number; data: Float64Array[];
+  annotations: { onsetS: number; durationS: number | null; text: string }[]; startTime: string;
+} {
+  return {
+    channelNames: ['C3', 'Cz', 'C4'],
+    sampleRateHz: 200,
+    data: [0, 1, 2].map((c) => Float64Array.from({ length: 450 }, (_, i) => 50 * Math.sin(2 * Math.PI * (5 + c) * i / 200) + 10 * c - 3.3)),
+    annotations: [{ onsetS: 0.5, durationS: 1, text: 'left' }, { onsetS: 1.25, durationS: null, text: 'right' },
+      { onsetS: 2, durationS: 0.25, text: 'Ünïcode cue' }],
+    startTime: '2023-11-05T14:03:27.5',
+  };
+}
