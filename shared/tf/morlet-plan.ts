@@ -77,7 +77,7 @@ export interface MorletParams {
  */
 export interface MorletKernel {
   readonly forward: FFT; // size fftSize
-  readonly inverse: FFT; // size inverseSize
+  readonly inverse: FFT; // size inverseSize (run forward on the conjugate: IFFT(z) = conj(FFT(conj z))/L)
   readonly inverseSize: number; // L = fftSize / subStep
   readonly subStep: number; // s: power of two dividing the output step
   readonly firstColumn: number; // m0: first output is inverse sample m0
@@ -86,7 +86,7 @@ export interface MorletKernel {
   readonly bandStart: Int32Array; // [freq] first DFT bin of the kept band
   readonly bandLength: Int32Array; // [freq]
   readonly weightOffset: Int32Array; // [freq] offset into weights
-  readonly weights: Float64Array; // concatenated c·exp(−(σ_t ω_k − n)²/2)/s over each band
+  readonly weights: Float64Array; // concatenated c·exp(−(σ_t ω_k − n)²/2)/M over each band (M = s·L)
   readonly padded: Float64Array; // [fftSize] scratch
   readonly spectrum: Float64Array; // [2·fftSize] scratch, interleaved complex
   readonly folded: Float64Array; // [2·inverseSize] scratch
@@ -282,7 +282,8 @@ function buildKernel(fs: number, n: number, freqs: Float64Array, cycles: Float64
   }
   const weights = new Float64Array(total);
   for (let j = 0; j < freqs.length; j++) {
-    const c = normalisationConstant(normalisation, sigmaTS[j]!, fs) / subStep;
+    // 1/s from the folding identity and 1/L of the inverse DFT, which cwt.ts runs as a forward FFT of the conjugate.
+    const c = normalisationConstant(normalisation, sigmaTS[j]!, fs) / m;
     for (let t = 0; t < bandLength[j]!; t++) {
       const u = sigmaTS[j]! * dOmega * (bandStart[j]! + t) - cycles[j]!;
       weights[weightOffset[j]! + t] = c * Math.exp(-0.5 * u * u);
