@@ -30,11 +30,14 @@ export interface FitContext {
   readonly onProgress?: (fraction: number) => void;
 }
 
-/** A recipe step: hyperparameters only. `fit` learns from training data and returns a new object. */
-export interface Stage<In, Out> {
+/**
+ * A recipe step: hyperparameters only. `fit` learns from training data and returns a new object.
+ * `F` lets a stage factory expose its specific fitted type (e.g. `FittedCsp` with its filters).
+ */
+export interface Stage<In, Out, F extends Fitted<In, Out> = Fitted<In, Out>> {
   readonly kind: string;
   readonly params: Readonly<Record<string, unknown>>;
-  fit(x: In, labels?: Uint8Array, ctx?: FitContext): Fitted<In, Out>;
+  fit(x: In, labels?: Uint8Array, ctx?: FitContext): F;
 }
 
 /** The result of fitting a stage: applies what was learned to new trials, unchanged. */

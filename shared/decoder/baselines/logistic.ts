@@ -124,7 +124,7 @@ function withDefaults(params: LogisticParams): Required<LogisticParams> {
  * `nestedCrossValidate((C) => [..., logisticStage({ C })], [0.01, 0.1, 1, 10, 100], ...)`
  * (grid from strongest to weakest penalty, so ties pick the stronger penalty).
  */
-export function logisticStage(params: LogisticParams = {}): Stage<FeatureRows, Float64Array> {
+export function logisticStage(params: LogisticParams = {}): Stage<FeatureRows, Float64Array, FittedLogistic> {
   const full = withDefaults(params);
   return {
     kind: 'logreg-l2', params: full,

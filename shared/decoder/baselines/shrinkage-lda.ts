@@ -163,7 +163,7 @@ function checkParams(params: ShrinkageLdaParams): { shrinkage: 'auto' | number }
 }
 
 /** Stage: shrinkage LDA on feature rows (e.g. CSP log-variances). */
-export function shrinkageLdaStage(params: ShrinkageLdaParams = {}): Stage<FeatureRows, Float64Array> {
+export function shrinkageLdaStage(params: ShrinkageLdaParams = {}): Stage<FeatureRows, Float64Array, FittedShrinkageLda> {
   const full = checkParams(params);
   return {
     kind: 'shrinkage-lda', params: full,

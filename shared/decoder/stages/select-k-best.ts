@@ -57,7 +57,7 @@ function makeFitted(params: SelectKBestParams, indices: Int32Array, scores: Floa
 }
 
 /** Stage: keep the k features with the largest ANOVA F on the training trials. */
-export function selectKBestStage(params: SelectKBestParams): Stage<FeatureRows, FeatureRows> {
+export function selectKBestStage(params: SelectKBestParams): Stage<FeatureRows, FeatureRows, FittedSelectKBest> {
   if (!Number.isInteger(params.k) || params.k < 1) throw new ParamError('k', `expected an integer >= 1, got ${params.k}`);
   return {
     kind: 'select-k-best', params,

@@ -32,7 +32,7 @@ function makeFitted(mean: Float64Array, scale: Float64Array): FittedStandardize 
 }
 
 /** Stage: z-score each feature with the training trials' mean and standard deviation. */
-export function standardizeStage(): Stage<FeatureRows, FeatureRows> {
+export function standardizeStage(): Stage<FeatureRows, FeatureRows, FittedStandardize> {
   return {
     kind: 'standardize', params: {},
     fit(x) {
