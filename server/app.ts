@@ -33,12 +33,15 @@ export interface BuiltApp {
   sessionStore: SqliteSessionStore;
 }
 
-function loginLimiter(ctx: AppContext): RequestHandler {
+/**
+ * Attempts per IP + e-mail address in the configured window. For sign-in only failures count (a lab
+ * sharing one address must not lock itself out); reset requests always answer 202, so all count.
+ */
+function attemptLimiter(ctx: AppContext, countSuccesses: boolean): RequestHandler {
   return rateLimit({
     windowMs: ctx.config.loginRateLimit.windowMs,
     limit: ctx.config.loginRateLimit.max,
-    // Successful sign-ins do not count: a lab sharing one address must not lock itself out.
-    skipSuccessfulRequests: true,
+    skipSuccessfulRequests: !countSuccesses,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     keyGenerator: (req) => {
@@ -83,7 +86,7 @@ export function buildApp(ctx: AppContext, services: Services): BuiltApp {
   api.use(passport.initialize());
   api.use(passport.session());
   api.use('/health', healthRouter());
-  api.use('/auth', authRouter(services.auth, passport, loginLimiter(ctx)));
+  api.use('/auth', authRouter(services.auth, passport, attemptLimiter(ctx, false), attemptLimiter(ctx, true)));
   api.use('/users', usersRouter(services.users));
   api.use('/rigs', rigsRouter(services.rigs));
   api.use('/audit', auditRouter(services.audit));

@@ -34,10 +34,13 @@ export interface ServerHandle {
   config: Config;
   /** What first-start seeding created (demo accounts, rig key shown once), or null. */
   seeded: SeedResult | null;
+  /** Registers cleanup (close sockets, stop the embedded bridge) run first at stop, newest first. */
+  onStop(hook: () => void | Promise<void>): void;
   stop(): Promise<void>;
 }
 
 const PRUNE_INTERVAL_MS = 10 * 60_000;
+const STOP_GRACE_MS = 5_000;
 
 function urlHost(host: string): string {
   if (host === '0.0.0.0' || host === '::') return 'localhost';
@@ -53,22 +56,29 @@ export async function start(opts: StartOptions = {}): Promise<ServerHandle> {
     mail = await createMailService({ db, log, from: config.mailFrom, smtpUrl: config.smtpUrl });
   } catch (err) {
     db.close();
+    if (config.uploadsDirIsTemp) rmSync(config.uploadsDir, { recursive: true, force: true });
     throw err;
   }
   const ctx: AppContext = { config, db, mail, log, publicUrl: config.publicUrl ?? '', now: () => new Date() };
-  const services = createServices(ctx);
-  const seeded = await seedIfEmpty(ctx);
-  const { app, sessionMiddleware, sessionStore } = buildApp(ctx, services);
-
-  const httpServer = createServer(app);
-  await new Promise<void>((resolve, reject) => {
-    httpServer.once('error', reject);
-    httpServer.listen(config.port, config.host, () => { httpServer.off('error', reject); resolve(); });
-  }).catch(async (err: unknown) => {
+  let built: { services: Services; seeded: SeedResult | null; app: Express; sessionMiddleware: RequestHandler;
+    sessionStore: { prune(): number }; httpServer: Server };
+  try {
+    const services = createServices(ctx);
+    const seeded = await seedIfEmpty(ctx);
+    const { app, sessionMiddleware, sessionStore } = buildApp(ctx, services);
+    const server = createServer(app);
+    await new Promise<void>((resolve, reject) => {
+      server.once('error', reject);
+      server.listen(config.port, config.host, () => { server.off('error', reject); resolve(); });
+    });
+    built = { services, seeded, app, sessionMiddleware, sessionStore, httpServer: server };
+  } catch (err) {
     await mail.stop();
     db.close();
+    if (config.uploadsDirIsTemp) rmSync(config.uploadsDir, { recursive: true, force: true });
     throw err;
-  });
+  }
+  const { services, seeded, app, sessionMiddleware, sessionStore, httpServer } = built;
   const port = (httpServer.address() as AddressInfo).port;
   const url = `http://${urlHost(config.host)}:${port}`;
   ctx.publicUrl = config.publicUrl ?? `http://localhost:${port}`;
@@ -76,12 +86,20 @@ export async function start(opts: StartOptions = {}): Promise<ServerHandle> {
   const pruneTimer = setInterval(() => sessionStore.prune(), PRUNE_INTERVAL_MS);
   pruneTimer.unref();
 
+  const hooks: (() => void | Promise<void>)[] = [];
   let stopping: Promise<void> | null = null;
   async function stop(): Promise<void> {
     stopping ??= (async () => {
       clearInterval(pruneTimer);
+      for (const hook of hooks.reverse()) {
+        try { await hook(); } catch (err) { log.error('a stop hook failed', err); }
+      }
+      const closed = new Promise<void>((resolve) => httpServer.close(() => resolve()));
       httpServer.closeIdleConnections();
-      await new Promise<void>((resolve) => httpServer.close(() => resolve()));
+      // Requests still running after the grace period are cut off.
+      const force = setTimeout(() => httpServer.closeAllConnections(), STOP_GRACE_MS);
+      await closed;
+      clearTimeout(force);
       await mail.stop();
       db.close();
       if (config.uploadsDirIsTemp) rmSync(config.uploadsDir, { recursive: true, force: true });
@@ -89,5 +107,9 @@ export async function start(opts: StartOptions = {}): Promise<ServerHandle> {
     return stopping;
   }
 
-  return { url, port, httpServer, app, db, mail, services, sessionMiddleware, config, seeded, stop };
+  return {
+    url, port, httpServer, app, db, mail, services, sessionMiddleware, config, seeded,
+    onStop: (hook) => { hooks.push(hook); },
+    stop,
+  };
 }

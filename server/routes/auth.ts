@@ -7,14 +7,15 @@ import { parseBody } from '../http/parse';
 import { authenticateLocal, logIn, logOut, type createPassport } from '../http/passport';
 import type { AuthService } from '../services/auth';
 
-export function authRouter(svc: AuthService, passport: ReturnType<typeof createPassport>, limiter: RequestHandler): Router {
+export function authRouter(svc: AuthService, passport: ReturnType<typeof createPassport>,
+                           loginLimiter: RequestHandler, resetLimiter: RequestHandler): Router {
   const r = Router();
 
   r.get('/csrf', (req, res) => {
     res.json({ token: csrfTokenFor(req) });
   });
 
-  r.post('/login', limiter, async (req, res) => {
+  r.post('/login', loginLimiter, async (req, res) => {
     req.body = parseBody(loginRequestSchema, req.body);
     const user = await authenticateLocal(passport, req, res);
     await logIn(req, user);
@@ -31,7 +32,7 @@ export function authRouter(svc: AuthService, passport: ReturnType<typeof createP
     res.json(svc.me(actor(req)));
   });
 
-  r.post('/password-reset', limiter, async (req, res) => {
+  r.post('/password-reset', resetLimiter, async (req, res) => {
     const { email } = parseBody(passwordResetRequestSchema, req.body);
     await svc.requestPasswordReset(email);
     res.status(202).json({ status: 'accepted' });

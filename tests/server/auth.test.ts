@@ -144,6 +144,19 @@ describe('login rate limit', () => {
     }
   });
 
+  it('limits password-reset requests per address too, although each answers 202', async () => {
+    const limited = await startTestServer({ loginRateLimit: { max: 2, windowMs: 60_000 } });
+    try {
+      const c = await anonymous(limited);
+      const statuses: number[] = [];
+      for (let i = 0; i < 3; i++) statuses.push((await c.post('/api/auth/password-reset', { email: EMAILS.reviewer })).status);
+      // Common practice (OWASP Forgot Password cheat sheet): rate-limit reset requests; RFC 6585 §4.
+      expect(statuses).toEqual([202, 202, 429]);
+    } finally {
+      await limited.stop();
+    }
+  });
+
   it('does not count successful sign-ins', async () => {
     const limited = await startTestServer({ loginRateLimit: { max: 2, windowMs: 60_000 } });
     try {

@@ -28,6 +28,21 @@ describe('configuration', () => {
     await expect(startTestServer({ port: -1 })).rejects.toThrow('PORT');
   });
 
+  it('rejects start() when the port is taken, and runs stop hooks once at stop', async () => {
+    const a = await startTestServer();
+    const calls: string[] = [];
+    a.onStop(() => { calls.push('first'); });
+    a.onStop(async () => { calls.push('second'); });
+    try {
+      // Node net: listening on a bound port fails with EADDRINUSE.
+      await expect(startTestServer({ port: a.port })).rejects.toThrow(/EADDRINUSE/);
+    } finally {
+      await Promise.all([a.stop(), a.stop()]);
+    }
+    // Hooks run newest first, once, even when stop() is called twice.
+    expect(calls).toEqual(['second', 'first']);
+  });
+
   it('uses an https public URL to switch on secure cookies', () => {
     // Foundation issue: secure cookies when publicUrl is https.
     expect(resolveConfig({ dataDir: ':memory:', publicUrl: 'https://eeg.lab.example/' })).toMatchObject({

@@ -74,3 +74,19 @@ describe('without a built client', () => {
     }
   });
 });
+
+describe('behind an HTTPS reverse proxy (public URL https)', () => {
+  it('marks the session cookie Secure and sends HSTS', async () => {
+    const h = await startTestServer({ publicUrl: 'https://eeg.lab.example' });
+    try {
+      const agent = request.agent(h.url);
+      const csrf = await agent.get('/api/auth/csrf').set('X-Forwarded-Proto', 'https');
+      const cookie = (csrf.headers['set-cookie'] as unknown as string[]).find((c) => c.startsWith('aftercue.sid='))!;
+      // Foundation issue: cookies secure when publicUrl is https (the proxy on loopback is trusted for the scheme).
+      expect(cookie).toMatch(/; Secure/);
+      expect(csrf.headers['strict-transport-security']).toMatch(/max-age=15552000/);
+    } finally {
+      await h.stop();
+    }
+  });
+});
