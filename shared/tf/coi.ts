@@ -1,8 +1,8 @@
 /**
  * Cone of influence of a Morlet CWT plan (Torrence & Compo 1998, Bull Am Meteorol Soc
- * 79(1):61-78, §3g and Table 1): edge effects on wavelet power fall by e⁻² (power e-folding)
- * within √2·s of a record end; for the n-cycle wavelet s = σ_t = n/(2πf) (Tallon-Baudry et al.
- * 1997, J Neurosci 17(2):722-734). The distance of sample i to the nearest end is
+ * 79(1):61-78, Table 1 and §3g [section letter from memory]): the wavelet power of an edge
+ * discontinuity falls by e⁻² (the e-folding time) within √2·s of a record end; for the
+ * n-cycle wavelet s = σ_t = n/(2πf) (Tallon-Baudry et al. 1997, J Neurosci 17(2):722-734). The distance of sample i to the nearest end is
  * min(i, N − 1 − i)/fs, as in T&C's own code. The same cone is reported for 'zero' and
  * 'reflect' padding: reflection reduces, but does not remove, edge effects.
  */

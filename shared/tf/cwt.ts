@@ -64,7 +64,7 @@ export function cwt(plan: MorletPlan, x: Float64Array): ComplexTf {
 }
 
 /**
- * CWT power |W|² of one signal (Torrence & Compo 1998 §3h: wavelet power spectrum).
+ * CWT power |W|² of one signal (the wavelet power spectrum of Torrence & Compo 1998).
  * With 'unit-energy', white noise of variance σ² has E|W|² = σ²; with 'amplitude', a sinusoid of
  * amplitude A at a planned frequency has |W|² = A².
  * @param x [nSamples] signal; not modified

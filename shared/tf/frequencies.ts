@@ -4,7 +4,7 @@ import { ParamError } from '../types';
  * A logarithmically spaced frequency grid, the usual axis of a wavelet time-frequency map:
  * f_i = lowHz · (highHz / lowHz)^(i / (count − 1)), i = 0 .. count − 1, so neighbouring
  * frequencies keep a constant ratio. This matches the geometric scale sets s_j = s0 · 2^(j·δj)
- * of Torrence & Compo 1998 (Bull Am Meteorol Soc 79(1):61-78, eq. 9-10) and the log-spaced
+ * of Torrence & Compo 1998 (Bull Am Meteorol Soc 79(1):61-78, eq. 9-10 [numbers from memory]) and the log-spaced
  * frequency axes recommended by Cohen 2019 (NeuroImage 199:81-86).
  * The first and last entries are exactly `lowHz` and `highHz`; `count = 1` gives [lowHz].
  * @param lowHz lowest frequency, Hz (> 0)

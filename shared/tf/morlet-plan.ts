@@ -39,28 +39,28 @@ import { ParamError } from '../types';
 export type MorletNormalisation = 'unit-energy' | 'amplitude';
 
 /**
- * How the signal is extended beyond its ends: 'zero' (T&C §3f, zero padding), or 'reflect'
+ * How the signal is extended beyond its ends: 'zero' (zero padding, as T&C 1998 do before the FFT), or 'reflect'
  * (mirror without repeating the edge sample, NumPy's `np.pad(x, p, 'reflect')`: d c b | a b c d |
  * c b a, repeated for pads longer than the signal; a one-sample signal is extended as a constant).
  */
 export type MorletPadding = 'zero' | 'reflect';
 
 /** Output columns at samples firstSample + step·i, i = 0 .. count − 1 (sample 0 = first input sample). */
-export interface MorletTimeGrid {
+export type MorletTimeGrid = {
   firstSample: number;
   step: number;
   count: number;
-}
+};
 
 /** Hyperparameters of a Morlet CWT plan. */
-export interface MorletParams {
+export type MorletParams = {
   /** Sampling rate of the signals, Hz. */
   sampleRateHz: number;
   /** Samples per signal; every call with this plan must pass exactly this many. */
   nSamples: number;
   /** Centre frequencies, Hz, each in (0, sampleRateHz/2); see `logSpacedFrequencies`. */
   frequenciesHz: ArrayLike<number>;
-  /** Cycles n per wavelet (σ_t = n/(2πf)): one value for all, or one per frequency. n >= 6 keeps the wavelet admissible (T&C §3b). */
+  /** Cycles n per wavelet (σ_t = n/(2πf)): one value for all, or one per frequency. n >= 6 keeps the wavelet admissible (T&C 1998 use ω0 = 6) and its DC leak below 2e−8. */
   cycles: number | ArrayLike<number>;
   normalisation: MorletNormalisation;
   padding: MorletPadding;
@@ -69,7 +69,7 @@ export interface MorletParams {
    * columns), or an explicit grid. Power-of-two steps are the fastest (see `cwt.ts`).
    */
   decimation?: number | MorletTimeGrid;
-}
+};
 
 /**
  * Precomputed FFT machinery and wavelet spectra. Opaque to callers: only `cwt.ts` reads it.
@@ -128,7 +128,8 @@ export interface MorletPlan {
  * Wavelet half-support in envelope SDs, √(2 ln 10¹⁰) ≈ 6.79: beyond it the Gaussian envelope is
  * below 1e−10 of its peak. The FFT size leaves this much zero (or reflected) signal beyond each
  * end, so circular wrap-around can leak at most 1e−10 of the wavelet's peak weight from one end
- * of the record into the other, and only inside the cone of influence (T&C 1998 §3f-g).
+ * of the record into the other; the leak is largest at the record ends (inside the cone of
+ * influence, T&C 1998 §3g [section letter from memory]) and falls off as a Gaussian away from them.
  */
 export const SUPPORT_SIGMAS = Math.sqrt(2 * Math.log(1e10));
 /** Spectral band kept per wavelet, in SDs of (σ_t ω − n): bins beyond weigh < exp(−8.5²/2) ≈ 2e−16 of the peak. */

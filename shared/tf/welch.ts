@@ -11,14 +11,14 @@ import { ParamError } from '../types';
 import { createRealDft } from './dft';
 
 /** Options of `welchPsd`; every field defaults to SciPy's `welch` default. */
-export interface WelchParams {
+export type WelchParams = {
   /** Samples per segment (nperseg), default 256, reduced to the signal length if longer. */
   segmentLength?: number;
   /** Samples shared by consecutive segments (noverlap), default floor(segmentLength / 2). */
   overlap?: number;
   /** Taper; only the periodic Hann window (SciPy's `get_window('hann', n)`) is offered. */
   window?: 'hann';
-}
+};
 
 /** A one-sided PSD: psd[k] is the density at frequenciesHz[k] = k·fs/segmentLength. */
 export interface WelchResult {
