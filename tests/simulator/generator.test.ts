@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { createSimulation, generateChunk, simulationTruth } from '../../simulator/generator';
 import { simulateRecording } from '../../simulator/offline';
 import { expectAllClose } from '../helpers/all-close';
-import { busyProfile } from './fixtures';
+import { busyProfile, demoProfile } from './fixtures';
 
 function generateInChunks(sizes: number[], overrides = {}) {
   const st = createSimulation(busyProfile(overrides));
@@ -90,6 +90,18 @@ describe('the generator', () => {
     expect(new Set(truth.artifacts.map((a) => a.kind))).toEqual(new Set(['blink', 'saccade', 'muscle', 'pop']));
     // The truth is plain JSON.
     expect(JSON.parse(JSON.stringify(truth))).toEqual(truth);
+  });
+
+  it('cues the demo run 100 times per class', () => {
+    // The cue schedule has its own stream, so one channel gives the demo's cues quickly.
+    const demo = demoProfile();
+    const st = createSimulation({ ...demo, channels: ['Cz'], artifacts: { ...demo.artifacts, flatChannels: [] } });
+    generateChunk(st, st.runLengthSamples);
+    const cues = simulationTruth(st).cues;
+    // Issue 5 part 2 / simulator/profiles/demo-hand-imagery.json: trialsPerClass 100, two classes.
+    expect(cues.length).toBe(200);
+    expect(cues.filter((c) => c.class === 'left-hand').length).toBe(100);
+    expect(cues.every((c) => c.block === 0)).toBe(true);
   });
 
   it('keeps cueing after the first run: the next block is balanced too', () => {

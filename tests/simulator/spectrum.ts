@@ -63,6 +63,25 @@ export function bandPower(x: ArrayLike<number>, fs: number, loHz: number, hiHz: 
   return (total * fs) / n;
 }
 
+/**
+ * Averaged Hann periodogram (one-sided density, mean removed) of consecutive non-overlapping
+ * segments of `segmentLength` samples, at the bins nearest to `freqsHz` (direct DFT, any length).
+ */
+export function periodogramAt(x: ArrayLike<number>, fs: number, segmentLength: number, freqsHz: number[]): number[] {
+  const out = freqsHz.map(() => 0);
+  let count = 0;
+  for (let start = 0; start + segmentLength <= x.length; start += segmentLength) {
+    const seg = Array.from({ length: segmentLength }, (_, i) => x[start + i]!);
+    freqsHz.forEach((f, j) => {
+      const bin = Math.round((f * segmentLength) / fs);
+      const hz = (bin * fs) / segmentLength;
+      out[j] += (bandPower(seg, fs, hz, hz) * segmentLength) / fs;
+    });
+    count++;
+  }
+  return out.map((v) => v / count);
+}
+
 /** Least-squares slope of log10(pxx) against log10(f) over lo <= f <= hi. */
 export function logLogSlope(f: Float64Array, pxx: Float64Array, loHz: number, hiHz: number): number {
   const xs: number[] = [];
