@@ -60,7 +60,10 @@ export type MorletParams = {
   nSamples: number;
   /** Centre frequencies, Hz, each in (0, sampleRateHz/2); see `logSpacedFrequencies`. */
   frequenciesHz: ArrayLike<number>;
-  /** Cycles n per wavelet (σ_t = n/(2πf)): one value for all, or one per frequency. n >= 6 keeps the wavelet admissible (T&C 1998 use ω0 = 6) and its DC leak below 2e−8. */
+  /**
+   * Cycles n per wavelet (σ_t = n/(2πf)): one value for all, or one per frequency. n >= 6 keeps
+   * the wavelet admissible (T&C 1998 use ω0 = 6) and its DC leak below 2e−8.
+   */
   cycles: number | ArrayLike<number>;
   normalisation: MorletNormalisation;
   padding: MorletPadding;

@@ -16,7 +16,8 @@ interface RealSpectrum {
 const fixture = JSON.parse(readFileSync(new URL('../../fixtures/tf/welch.json', import.meta.url), 'utf8')) as {
   source: string; real: RealSpectrum[] };
 
-/** Time-averaged CWT power per frequency outside the cone of influence (T&C 1998 time-averaged wavelet spectrum, eq. 22 [number from memory], COI excluded). */
+// Time-averaged CWT power per frequency outside the cone of influence
+// (T&C 1998 time-averaged wavelet spectrum, eq. 22 [number from memory]).
 function averagePower(plan: MorletPlan, x: Float64Array): number[] {
   const power = cwtPower(plan, x);
   const mask = edgeMask(plan);

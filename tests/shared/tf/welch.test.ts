@@ -59,7 +59,11 @@ describe('createRealDft', () => {
     const eIm: number[] = [];
     for (let k = 0; k < half; k++) {
       let sr = 0; let si = 0;
-      for (let t = 0; t < n; t++) { sr += x[t]! * Math.cos((2 * Math.PI * ((k * t) % n)) / n); si -= x[t]! * Math.sin((2 * Math.PI * ((k * t) % n)) / n); }
+      for (let t = 0; t < n; t++) {
+        const angle = (2 * Math.PI * ((k * t) % n)) / n;
+        sr += x[t]! * Math.cos(angle);
+        si -= x[t]! * Math.sin(angle);
+      }
       eRe.push(sr); eIm.push(si);
     }
     const scale = Math.max(...eRe.map(Math.abs), ...eIm.map(Math.abs));
