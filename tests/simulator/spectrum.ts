@@ -28,11 +28,11 @@ export function welch(x: ArrayLike<number>, fs: number, nperseg: number): { f: F
     mean /= nperseg;
     for (let i = 0; i < nperseg; i++) seg[i] = (x[start + i]! - mean) * w[i]!;
     fft.realTransform(out, seg);
-    for (let k = 0; k <= half; k++) pxx[k] += out[2 * k]! ** 2 + out[2 * k + 1]! ** 2;
+    for (let k = 0; k <= half; k++) pxx[k] = pxx[k]! + out[2 * k]! ** 2 + out[2 * k + 1]! ** 2;
     count++;
   }
   const scale = 1 / (fs * s2 * count);
-  for (let k = 0; k <= half; k++) pxx[k] *= (k === 0 || k === half ? 1 : 2) * scale;
+  for (let k = 0; k <= half; k++) pxx[k] = pxx[k]! * (k === 0 || k === half ? 1 : 2) * scale;
   return { f: Float64Array.from({ length: half + 1 }, (_, k) => (k * fs) / nperseg), pxx };
 }
 
@@ -75,7 +75,7 @@ export function periodogramAt(x: ArrayLike<number>, fs: number, segmentLength: n
     freqsHz.forEach((f, j) => {
       const bin = Math.round((f * segmentLength) / fs);
       const hz = (bin * fs) / segmentLength;
-      out[j] += (bandPower(seg, fs, hz, hz) * segmentLength) / fs;
+      out[j] = out[j]! + (bandPower(seg, fs, hz, hz) * segmentLength) / fs;
     });
     count++;
   }
