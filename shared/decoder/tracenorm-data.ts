@@ -1,6 +1,6 @@
 /**
  * Data layout and the smooth part of the trace-norm logistic regression objective
- * (REFERENCES.md §4): validation, margins, logistic loss and gradient, and the Lipschitz bound.
+ * (REFERENCES.md §4): validation, margins, logistic loss and its Bregman divergence, and the Lipschitz bound.
  * The solver (tracenorm.ts) and the path (tracenorm-path.ts) build on these kernels.
  */
 import { ParamError, ShapeError } from '../types';
@@ -44,6 +44,11 @@ export function blockLayout(features: MatrixFeatures): BlockLayout {
   });
   if (x.length !== nTrials * dim) {
     throw new ShapeError('features.x', `expected ${nTrials} trials × ${dim} values = ${nTrials * dim}, got ${x.length}`);
+  }
+  for (let j = 0; j < x.length; j++) {
+    if (!Number.isFinite(x[j]!)) {
+      throw new ParamError('features.x', `non-finite value ${x[j]} at trial ${Math.floor(j / dim)}, element ${j % dim}`);
+    }
   }
   return { offsets, sizes, dim };
 }
@@ -139,20 +144,6 @@ export function sigmoid(z: number): number {
   if (z >= 0) return 1 / (1 + Math.exp(-z));
   const e = Math.exp(z);
   return e / (1 + e);
-}
-
-/** g = Xᵀ r (the loss gradient over all weights, same layout as one trial); returns Σ r. */
-export function gradient(x: Float64Array, nTrials: number, dim: number, resid: Float64Array, g: Float64Array): number {
-  g.fill(0);
-  let gb = 0;
-  for (let i = 0; i < nTrials; i++) {
-    const r = resid[i]!;
-    gb += r;
-    if (r === 0) continue;
-    const base = i * dim;
-    for (let j = 0; j < dim; j++) g[j]! += r * x[base + j]!;
-  }
-  return gb;
 }
 
 /**
