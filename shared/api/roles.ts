@@ -21,7 +21,14 @@ export type Permission =
   | 'rig:manage'
   | 'user:manage'
   | 'audit:read'
-  | 'outbox:read';
+  | 'outbox:read'
+  | 'decoder:read'
+  | 'decoder:import'
+  | 'decoder:freeze'
+  | 'session:read'
+  | 'session:run'
+  | 'training:run'
+  | 'recording:upload';
 
 /** Which roles hold each permission. Later features add rows here. */
 export const PERMISSIONS: Record<Permission, readonly Role[]> = {
@@ -36,6 +43,14 @@ export const PERMISSIONS: Record<Permission, readonly Role[]> = {
   'user:manage': ['admin'],
   'audit:read': ['admin'],
   'outbox:read': ['admin'],
+  'decoder:read': ['admin', 'investigator', 'experimenter', 'reviewer'],
+  'decoder:import': ['admin', 'investigator', 'experimenter'],
+  'decoder:freeze': ['admin', 'investigator'],
+  'session:read': ['admin', 'investigator', 'experimenter', 'reviewer'],
+  /** Create, start, pause, resume, stop, annotate, mark trials, display link. */
+  'session:run': ['admin', 'investigator', 'experimenter'],
+  'training:run': ['admin', 'investigator', 'experimenter'],
+  'recording:upload': ['admin', 'investigator', 'experimenter'],
 };
 
 /** Every permission name, in declaration order. */

@@ -5,9 +5,14 @@ import {
 
 describe('roles and permissions (shared/api/roles.ts)', () => {
   it('gives each role the permissions the foundation issue lists', () => {
-    // Foundation issue, "Roles": the suggested permission table, written out per role.
-    expect(permissionsFor('reviewer')).toEqual(['study:read']);
-    expect(permissionsFor('experimenter')).toEqual(['study:read', 'participant:create', 'participant:edit', 'rig:read']);
+    // Foundation issue, "Roles": the suggested permission table, written out per role, plus the
+    // issue 6 contract's decoder/session/training/recording rows.
+    expect(permissionsFor('reviewer')).toEqual(['study:read', 'decoder:read', 'session:read']);
+    expect(permissionsFor('experimenter')).toEqual(['study:read', 'participant:create', 'participant:edit', 'rig:read',
+      'decoder:read', 'decoder:import', 'session:read', 'session:run', 'training:run', 'recording:upload']);
+    // Issue 6 contract: freezing a decoder is the investigator's (and admin's) call, not the experimenter's.
+    expect(can('experimenter', 'decoder:freeze')).toBe(false);
+    expect(can('investigator', 'decoder:freeze')).toBe(true);
     expect(permissionsFor('admin')).toEqual(Object.keys(PERMISSIONS));
     expect(ROLES).toEqual(['admin', 'investigator', 'experimenter', 'reviewer']);
   });
