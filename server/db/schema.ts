@@ -4,7 +4,7 @@
  * Only server/db/queries/* import these tables.
  */
 import { sql } from 'drizzle-orm';
-import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { blob, index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 import type { ConsentStatus, Recipe, Role, StudyStatus } from '../../shared/api';
 
 const createdAt = () => integer('created_at', { mode: 'timestamp_ms' }).notNull();
@@ -117,6 +117,118 @@ export const auditLog = sqliteTable('audit_log', {
   index('audit_log_target_idx').on(t.targetType, t.targetId),
 ]);
 
+/** Where a recording came from. */
+export type RecordingSource = 'upload' | 'session' | 'simulated';
+/** Where a decoder came from. */
+export type DecoderSource = 'import' | 'training-job' | 'demo';
+export type DecoderStatus = 'draft' | 'frozen';
+export type TrainingJobStatus = 'queued' | 'running' | 'done' | 'failed';
+
+/**
+ * Stored continuous EEG with cue markers. An uploaded or simulated recording keeps its EDF/EDF+/BDF
+ * file in `file_bytes`; a recording captured from a feed may instead keep its samples as
+ * `recording_chunks` rows (then `file_bytes` is null). Cues are rows of `recording_cues`.
+ */
+export const recordings = sqliteTable('recordings', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  studyId: integer('study_id').notNull().references(() => studies.id),
+  participantId: integer('participant_id').references(() => participants.id),
+  name: text('name').notNull(),
+  source: text('source').$type<RecordingSource>().notNull(),
+  /** 'edf' | 'edf+c' | 'edf+d' | 'bdf' | 'bdf+c' | 'bdf+d' for files; 'chunks' for chunked samples. */
+  format: text('format').notNull(),
+  channelNames: text('channel_names', { mode: 'json' }).$type<string[]>().notNull(),
+  sampleRateHz: real('sample_rate_hz').notNull(),
+  sampleCount: integer('sample_count').notNull(),
+  durationS: real('duration_s').notNull(),
+  /** Cue label -> number of cues, kept beside the cue rows for cheap listing. */
+  cueCounts: text('cue_counts', { mode: 'json' }).$type<Record<string, number>>().notNull(),
+  fileBytes: blob('file_bytes', { mode: 'buffer' }),
+  fileSha256: text('file_sha256'),
+  createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+  createdAt: createdAt(),
+}, (t) => [index('recordings_study_idx').on(t.studyId)]);
+
+/** One cue (annotation) of a recording; onset in seconds from the recording start. */
+export const recordingCues = sqliteTable('recording_cues', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  recordingId: integer('recording_id').notNull()
+    .references(() => recordings.id, { onDelete: 'cascade' }),
+  onsetS: real('onset_s').notNull(),
+  durationS: real('duration_s').notNull().default(0),
+  label: text('label').notNull(),
+  sampleIndex: integer('sample_index').notNull(),
+}, (t) => [index('recording_cues_recording_idx').on(t.recordingId, t.onsetS)]);
+
+/**
+ * Samples of a chunked recording: `data` is little-endian Float64, channel-major
+ * ([channel][sample], `sample_count` samples per channel), in µV.
+ */
+export const recordingChunks = sqliteTable('recording_chunks', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  recordingId: integer('recording_id').notNull()
+    .references(() => recordings.id, { onDelete: 'cascade' }),
+  firstSample: integer('first_sample').notNull(),
+  sampleCount: integer('sample_count').notNull(),
+  data: blob('data', { mode: 'buffer' }).notNull(),
+}, (t) => [uniqueIndex('recording_chunks_recording_first_uq').on(t.recordingId, t.firstSample)]);
+
+/**
+ * A trained pipeline. `artifact` is the artifact JSON exactly as sealed; `sha256` is its seal.
+ * Once `status` is 'frozen', `artifact` and `sha256` never change (the service refuses).
+ */
+export const decoders = sqliteTable('decoders', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  studyId: integer('study_id').notNull().references(() => studies.id),
+  name: text('name').notNull(),
+  recipe: text('recipe').$type<Recipe>().notNull(),
+  classes: text('classes', { mode: 'json' }).$type<string[]>().notNull(),
+  channelNames: text('channel_names', { mode: 'json' }).$type<string[]>().notNull(),
+  sampleRateHz: real('sample_rate_hz').notNull(),
+  epochStartS: real('epoch_start_s').notNull(),
+  epochEndS: real('epoch_end_s').notNull(),
+  artifact: text('artifact').notNull(),
+  sha256: text('sha256').notNull(),
+  status: text('status').$type<DecoderStatus>().notNull().default('draft'),
+  /** Headline figures for lists: {cvAccuracy, wilson95, chanceThreshold95, trials}. */
+  metrics: text('metrics', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
+  /** The training report (null when an imported artifact came without one). */
+  report: text('report', { mode: 'json' }).$type<Record<string, unknown>>(),
+  interpretation: text('interpretation', { mode: 'json' }).$type<Record<string, unknown>>(),
+  source: text('source').$type<DecoderSource>().notNull(),
+  createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+  createdAt: createdAt(),
+  frozenAt: integer('frozen_at', { mode: 'timestamp_ms' }),
+  frozenBy: integer('frozen_by').references(() => users.id, { onDelete: 'set null' }),
+}, (t) => [
+  index('decoders_study_idx').on(t.studyId),
+  index('decoders_sha256_idx').on(t.sha256),
+]);
+
+/** Offline fit + nested cross-validation, run one at a time in a worker thread. */
+export const trainingJobs = sqliteTable('training_jobs', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  studyId: integer('study_id').notNull().references(() => studies.id),
+  name: text('name').notNull(),
+  status: text('status').$type<TrainingJobStatus>().notNull().default('queued'),
+  /** 0..1 */
+  progress: real('progress').notNull().default(0),
+  stage: text('stage').notNull().default('queued'),
+  /** Request parameters: recordingIds, recipe, classes, folds, inner, seed, components, prior. */
+  params: text('params', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
+  /** 'user' for a requested job; 'demo' for the seeded demo decoder (frozen when done). */
+  purpose: text('purpose').$type<'user' | 'demo'>().notNull().default('user'),
+  error: text('error'),
+  decoderId: integer('decoder_id').references(() => decoders.id, { onDelete: 'set null' }),
+  createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+  createdAt: createdAt(),
+  startedAt: integer('started_at', { mode: 'timestamp_ms' }),
+  finishedAt: integer('finished_at', { mode: 'timestamp_ms' }),
+}, (t) => [
+  index('training_jobs_study_idx').on(t.studyId),
+  index('training_jobs_status_idx').on(t.status),
+]);
+
 export type UserRow = typeof users.$inferSelect;
 export type StudyRow = typeof studies.$inferSelect;
 export type ParticipantRow = typeof participants.$inferSelect;
@@ -124,3 +236,8 @@ export type RigRow = typeof rigs.$inferSelect;
 export type PasswordTokenRow = typeof passwordTokens.$inferSelect;
 export type MailRow = typeof mailOutbox.$inferSelect;
 export type AuditRow = typeof auditLog.$inferSelect;
+export type RecordingRow = typeof recordings.$inferSelect;
+export type RecordingCueRow = typeof recordingCues.$inferSelect;
+export type RecordingChunkRow = typeof recordingChunks.$inferSelect;
+export type DecoderRow = typeof decoders.$inferSelect;
+export type TrainingJobRow = typeof trainingJobs.$inferSelect;
