@@ -25,7 +25,13 @@ export {
 /** Feature matrix: one row per trial. */
 export type FeatureRows = Float64Array[]; // [trial][feature]
 
-/** What the evaluation engine hands to `fit` besides data and labels. */
+/**
+ * What the evaluation engine hands to `fit` besides data and labels. A self-tuning stage uses it
+ * like this (inside its own `fit(x, labels, ctx)`, on the training trials it was given):
+ *   const plan = stratifiedKFold(labels, ctx?.innerK ?? 5, ctx?.seed ?? 0);  // shared/evaluation/folds
+ *   for each inner fold: run the warm-started path on take(x, train), score every path point on take(x, test);
+ *   pick the point with chooseHyper (shared/evaluation/nested) and refit on all of x.
+ */
 export interface FitContext {
   /** Seed for anything random inside this fit (inner fold plans, initialisation). */
   readonly seed: number;

@@ -127,3 +127,49 @@ describe('chooseHyper', () => {
     expect(chooseHyper([{ accuracy: 0.9, logLoss: 0.6 }, { accuracy: 0.7, logLoss: 0.5 }], 'logLoss')).toBe(1);
   });
 });
+
+describe('self-tuning stages (FitContext hook)', () => {
+  /**
+   * A classifier stage that picks its own C by inner CV inside fit, as a warm-started path search
+   * would: inner plan from ctx, scores per C, chooseHyper, refit on everything it was given.
+   */
+  function selfTuningLogistic(grid: number[], log: { ids: number[] }[], chosen: number[]): Stage<FeatureRows, Float64Array> {
+    return {
+      kind: 'test-self-tuning', params: { grid },
+      fit(x, labels, ctx) {
+        const y = labels!;
+        const plan = stratifiedKFold(y, ctx?.innerK ?? 5, ctx?.seed ?? 0);
+        const scores = grid.map((C) => {
+          const res = crossValidate([spyStage(log), logisticStage({ C })], x, y, plan);
+          const pooled = poolFolds(res, y);
+          return { accuracy: pooled.accuracy, logLoss: 0 };
+        });
+        const C = grid[chooseHyper(scores)]!;
+        chosen.push(C);
+        return logisticStage({ C }).fit(x, y);
+      },
+    };
+  }
+
+  it('an inner search inside fit never sees the outer test fold', () => {
+    const { x, y } = idData(40, 3, 8, 1.5);
+    const log: { ids: number[] }[] = [], chosen: number[] = [];
+    const plan = stratifiedKFold(y, 5, 3);
+    const outer: FeatureRows[] = [];
+    const recorder: Stage<FeatureRows, FeatureRows> = {
+      kind: 'test-recorder', params: {},
+      fit(xx) { outer.push(xx); return { kind: 'test-recorder', transform: (z) => z, toArtifact: () => ({ kind: 'test-recorder', version: 1, params: {}, learned: {} }) }; },
+    };
+    const res = crossValidate([recorder, selfTuningLogistic([0.01, 1, 100], log, chosen)], x, y, plan, { innerK: 4 });
+    // Source: REFERENCES.md §6 (tuning inside the outer training fold only).
+    expect(chosen).toHaveLength(5);
+    expect(log).toHaveLength(5 * 3 * 4);
+    log.forEach((fit, k) => {
+      const f = Math.floor(k / 12);
+      const test = new Set(plan.folds[f]!.test);
+      expect(fit.ids.some((id) => test.has(id))).toBe(false);
+    });
+    expect(res.every((r) => r.probabilities.length === r.test.length)).toBe(true);
+    expect(outer.map((o) => o.length)).toEqual(plan.folds.map((f) => f.train.length));
+  });
+});
