@@ -61,6 +61,23 @@ export function repeatedStratifiedKFold(labels: Uint8Array, k: number, repeats: 
   return Array.from({ length: repeats }, (_, r) => stratifiedKFold(labels, k, deriveSeed(seed, r)));
 }
 
+/**
+ * Leave-one-group-out plan: fold g tests every trial of the g-th distinct group (ascending group
+ * id) and trains on the rest, e.g. one fold per recording run, so temporally correlated trials
+ * of a run never straddle training and test (REFERENCES.md §6, last table row).
+ * @param groups group id per trial (e.g. run index); at least two distinct ids
+ */
+export function leaveOneGroupOut(groups: ArrayLike<number>): FoldPlan {
+  const ids = [...new Set(Array.from(groups))].sort((a, b) => a - b);
+  if (ids.length < 2) throw new ParamError('groups', `expected at least two distinct groups, got ${ids.length}`);
+  const folds = ids.map((g) => {
+    const test: number[] = [], train: number[] = [];
+    for (let i = 0; i < groups.length; i++) (groups[i] === g ? test : train).push(i);
+    return { train: Int32Array.from(train), test: Int32Array.from(test) };
+  });
+  return { k: ids.length, seed: 0, folds };
+}
+
 /** Checks that a plan's indices lie in [0, trials) and that train and test are disjoint. */
 export function checkFoldPlan(plan: FoldPlan, trials: number): void {
   plan.folds.forEach(({ train, test }, f) => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { deriveSeed, repeatedStratifiedKFold, stratifiedKFold } from '../../../shared/evaluation/folds';
+import { deriveSeed, leaveOneGroupOut, repeatedStratifiedKFold, stratifiedKFold } from '../../../shared/evaluation/folds';
 
 const labels = Uint8Array.from([...new Array(21).fill(0), ...new Array(24).fill(1)]);
 
@@ -53,5 +53,16 @@ describe('stratifiedKFold', () => {
     for (let r = 0; r < 20; r++) seeds.add(deriveSeed(0, r));
     // Source: common practice (no accidental seed reuse between inner plans).
     expect(seeds.size).toBe(420);
+  });
+});
+
+describe('leaveOneGroupOut', () => {
+  it('tests each run once and never splits a run', () => {
+    const runs = Int32Array.of(4, 4, 8, 8, 8, 12, 12);
+    const plan = leaveOneGroupOut(runs);
+    // Source: REFERENCES.md §6 (keep whole runs together in folds).
+    expect(plan.folds.map((f) => Array.from(f.test))).toEqual([[0, 1], [2, 3, 4], [5, 6]]);
+    expect(Array.from(plan.folds[1]!.train)).toEqual([0, 1, 5, 6]);
+    expect(() => leaveOneGroupOut([1, 1])).toThrow(/groups/);
   });
 });
