@@ -10,3 +10,5 @@ export * from './audit';
 export * from './outbox';
 export * from './studies';
 export * from './participants';
+export * from './sessions';
+export * from './live';
