@@ -41,6 +41,7 @@ export function fitLogisticL2(x: FeatureRows, labels: Uint8Array, C: number, tol
   checkBinaryLabels(labels, n);
   if (!(C > 0)) throw new ParamError('C', `expected C > 0, got ${C}`);
   const d = p + 1; // theta = [w, b]
+  const aug = x.map((r) => { const a = new Float64Array(d); a.set(r); a[p] = 1; return a; }); // [x_i, 1]
   let theta = new Float64Array(d);
   const z = new Float64Array(n);
   const scores = (t: Float64Array, out: Float64Array) => {
@@ -59,12 +60,12 @@ export function fitLogisticL2(x: FeatureRows, labels: Uint8Array, C: number, tol
     const g = new Float64Array(d), h = new Float64Array(d * d);
     for (let j = 0; j < p; j++) { g[j] = theta[j]!; h[j * d + j] = 1; }
     for (let i = 0; i < n; i++) {
-      const mu = sigmoid(z[i]!), r = x[i]!, wgt = C * mu * (1 - mu), res = C * (mu - labels[i]!);
+      const mu = sigmoid(z[i]!), r = aug[i]!, wgt = C * mu * (1 - mu), res = C * (mu - labels[i]!);
       for (let a = 0; a < d; a++) {
-        const xa = a < p ? r[a]! : 1;
+        const xa = r[a]!;
         g[a]! += res * xa;
-        const wa = wgt * xa;
-        for (let b = 0; b <= a; b++) h[a * d + b]! += wa * (b < p ? r[b]! : 1);
+        const wa = wgt * xa, row = a * d;
+        for (let b = 0; b <= a; b++) h[row + b]! += wa * r[b]!;
       }
     }
     let gmax = 0;
