@@ -5,7 +5,7 @@
  */
 import { sql } from 'drizzle-orm';
 import { blob, index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
-import type { ConsentStatus, Recipe, Role, StudyStatus } from '../../shared/api';
+import type { ConsentStatus, Recipe, Role, SessionEventKind, SessionStatus, StudyStatus, TrialFlag, TrialLatency } from '../../shared/api';
 
 const createdAt = () => integer('created_at', { mode: 'timestamp_ms' }).notNull();
 const updatedAt = () => integer('updated_at', { mode: 'timestamp_ms' }).notNull();
@@ -229,6 +229,138 @@ export const trainingJobs = sqliteTable('training_jobs', {
   index('training_jobs_status_idx').on(t.status),
 ]);
 
+/**
+ * One continuous stream from a rig: a bridge session (HELLO's bridgeSessionId). It outlives
+ * connections: `durable_seq` / `next_sample` are what is stored, so a bridge can resume after a
+ * reconnect or a server restart. Written with the chunks, in the same transaction.
+ */
+export const feeds = sqliteTable('feeds', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  rigId: integer('rig_id').notNull().references(() => rigs.id),
+  bridgeSessionId: text('bridge_session_id').notNull(),
+  channelNames: text('channel_names', { mode: 'json' }).$type<string[]>().notNull(),
+  units: text('units', { mode: 'json' }).$type<string[]>().notNull(),
+  sampleRateHz: real('sample_rate_hz').notNull(),
+  /** ISO 8601 time of sample 0, as the bridge gave it. */
+  startTime: text('start_time').notNull(),
+  /** Last stored (and acknowledged) sequence number; 0 = none. */
+  durableSeq: integer('durable_seq').notNull().default(0),
+  /** Next sample index after everything stored. */
+  nextSample: integer('next_sample').notNull().default(0),
+  createdAt: createdAt(),
+  lastSeenAt: integer('last_seen_at', { mode: 'timestamp_ms' }).notNull(),
+}, (t) => [uniqueIndex('feeds_rig_bridge_uq').on(t.rigId, t.bridgeSessionId)]);
+
+/**
+ * Raw samples of a feed exactly as received: `samples` is little-endian float32 interleaved
+ * [sample][channel] over all the feed's channels, µV (NaN kept: it is data).
+ */
+export const feedChunks = sqliteTable('feed_chunks', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  feedId: integer('feed_id').notNull().references(() => feeds.id, { onDelete: 'cascade' }),
+  seq: integer('seq').notNull(),
+  firstSample: integer('first_sample').notNull(),
+  sampleCount: integer('sample_count').notNull(),
+  channelCount: integer('channel_count').notNull(),
+  samples: blob('samples', { mode: 'buffer' }).notNull(),
+}, (t) => [
+  uniqueIndex('feed_chunks_feed_seq_uq').on(t.feedId, t.seq),
+  index('feed_chunks_feed_sample_idx').on(t.feedId, t.firstSample),
+]);
+
+/** Cue markers and announced gaps of a feed. A gap covers [sample, to_sample); `seq` is its last seq. */
+export const feedMarks = sqliteTable('feed_marks', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  feedId: integer('feed_id').notNull().references(() => feeds.id, { onDelete: 'cascade' }),
+  seq: integer('seq').notNull(),
+  kind: text('kind').$type<'cue' | 'gap'>().notNull(),
+  sample: integer('sample').notNull(),
+  toSample: integer('to_sample'),
+  cueId: integer('cue_id'),
+  label: text('label'),
+  /** 'source' | 'overflow' for gaps. */
+  reason: text('reason'),
+}, (t) => [
+  uniqueIndex('feed_marks_feed_seq_uq').on(t.feedId, t.seq),
+  index('feed_marks_feed_sample_idx').on(t.feedId, t.sample),
+]);
+
+/**
+ * A closed-loop run of one frozen decoder with one participant on one rig. Its samples are the
+ * feed's [start_sample, stop_sample) (stop_sample null while it runs).
+ */
+export const pilotSessions = sqliteTable('pilot_sessions', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  studyId: integer('study_id').notNull().references(() => studies.id),
+  participantId: integer('participant_id').notNull().references(() => participants.id),
+  rigId: integer('rig_id').notNull().references(() => rigs.id),
+  decoderId: integer('decoder_id').notNull().references(() => decoders.id),
+  status: text('status').$type<SessionStatus>().notNull().default('ready'),
+  notes: text('notes').notNull().default(''),
+  feedId: integer('feed_id').references(() => feeds.id),
+  startSample: integer('start_sample'),
+  stopSample: integer('stop_sample'),
+  droppedSamples: integer('dropped_samples').notNull().default(0),
+  gapCount: integer('gap_count').notNull().default(0),
+  /** Artifact limits in force ({source, windows, channelNames, peakToPeakLimitUv, ...}), once set. */
+  artifactLimits: text('artifact_limits', { mode: 'json' }).$type<Record<string, unknown>>(),
+  createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+  createdAt: createdAt(),
+  startedAt: integer('started_at', { mode: 'timestamp_ms' }),
+  stoppedAt: integer('stopped_at', { mode: 'timestamp_ms' }),
+}, (t) => [
+  index('pilot_sessions_study_idx').on(t.studyId),
+  index('pilot_sessions_rig_status_idx').on(t.rigId, t.status),
+]);
+
+/** One cue of a session and its prediction. Ids are given by the live engine (it writes off-thread). */
+export const trials = sqliteTable('trials', {
+  id: integer('id').primaryKey(),
+  sessionId: integer('session_id').notNull().references(() => pilotSessions.id, { onDelete: 'cascade' }),
+  cueId: integer('cue_id').notNull(),
+  /** Feed sample index of the cue. */
+  sampleIndex: integer('sample_index').notNull(),
+  onsetS: real('onset_s').notNull(),
+  trueClass: text('true_class'),
+  predictedClass: text('predicted_class').notNull(),
+  /** One per class, in the decoder's class order. */
+  probabilities: text('probabilities', { mode: 'json' }).$type<number[]>().notNull(),
+  latency: text('latency', { mode: 'json' }).$type<TrialLatency>().notNull(),
+  flags: text('flags', { mode: 'json' }).$type<TrialFlag[]>().notNull(),
+  /** Channels beyond their artifact limit (names), for the gap review. */
+  artifactChannels: text('artifact_channels', { mode: 'json' }).$type<string[]>().notNull(),
+  markedBad: integer('marked_bad', { mode: 'boolean' }).notNull().default(false),
+  note: text('note'),
+  createdAt: createdAt(),
+}, (t) => [uniqueIndex('trials_session_cue_uq').on(t.sessionId, t.cueId)]);
+
+/** What happened during a session (gap, pause, resume, annotation, flag, start, stop). */
+export const sessionEvents = sqliteTable('session_events', {
+  id: integer('id').primaryKey(),
+  sessionId: integer('session_id').notNull().references(() => pilotSessions.id, { onDelete: 'cascade' }),
+  at: integer('at', { mode: 'timestamp_ms' }).notNull(),
+  kind: text('kind').$type<SessionEventKind>().notNull(),
+  text: text('text').notNull(),
+  sampleIndex: integer('sample_index'),
+}, (t) => [index('session_events_session_idx').on(t.sessionId, t.id)]);
+
+/** One-time links for the participant display; only the SHA-256 (hex) of a token is stored. */
+export const displayTokens = sqliteTable('display_tokens', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  sessionId: integer('session_id').notNull().references(() => pilotSessions.id, { onDelete: 'cascade' }),
+  tokenHash: text('token_hash').notNull().unique(),
+  expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
+  usedAt: integer('used_at', { mode: 'timestamp_ms' }),
+  createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+  createdAt: createdAt(),
+}, (t) => [index('display_tokens_session_idx').on(t.sessionId)]);
+
+/** Rigs served by the synthetic bridge inside the server (the demo rig): `profile` names its simulation profile. */
+export const embeddedRigs = sqliteTable('embedded_rigs', {
+  rigId: integer('rig_id').primaryKey().references(() => rigs.id, { onDelete: 'cascade' }),
+  profile: text('profile').notNull(),
+});
+
 export type UserRow = typeof users.$inferSelect;
 export type StudyRow = typeof studies.$inferSelect;
 export type ParticipantRow = typeof participants.$inferSelect;
@@ -241,3 +373,10 @@ export type RecordingCueRow = typeof recordingCues.$inferSelect;
 export type RecordingChunkRow = typeof recordingChunks.$inferSelect;
 export type DecoderRow = typeof decoders.$inferSelect;
 export type TrainingJobRow = typeof trainingJobs.$inferSelect;
+export type FeedRow = typeof feeds.$inferSelect;
+export type FeedChunkRow = typeof feedChunks.$inferSelect;
+export type FeedMarkRow = typeof feedMarks.$inferSelect;
+export type PilotSessionRow = typeof pilotSessions.$inferSelect;
+export type TrialRow = typeof trials.$inferSelect;
+export type SessionEventRow = typeof sessionEvents.$inferSelect;
+export type DisplayTokenRow = typeof displayTokens.$inferSelect;
