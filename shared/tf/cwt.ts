@@ -43,10 +43,6 @@ export interface ComplexTf {
 /** Power below this floor (in the signal's squared units) is clamped before the logarithm in `cwtLogPower`. */
 export const DEFAULT_LOG_POWER_FLOOR = 1e-20;
 
-const MODE_COMPLEX = 0;
-const MODE_POWER = 1;
-const MODE_LOG_POWER = 2;
-
 /**
  * Complex Morlet CWT of one signal on the plan's frequencies and output grid
  * (Torrence & Compo 1998 eq. 4, analytic Morlet, normalisation as planned).
@@ -58,9 +54,19 @@ const MODE_LOG_POWER = 2;
 export function cwt(plan: MorletPlan, x: Float64Array): ComplexTf {
   checkInput(plan, x);
   const size = plan.nFrequencies * plan.nTimes;
-  const out = { re: new Float64Array(size), im: new Float64Array(size) };
-  transform(plan, x, MODE_COMPLEX, out.re, out.im, 0);
-  return out;
+  const re = new Float64Array(size);
+  const im = new Float64Array(size);
+  if (!forwardSpectrum(plan, x)) return { re, im };
+  const { output } = plan.kernel;
+  const { nT, first, step } = columns(plan);
+  for (let j = 0; j < plan.nFrequencies; j++) {
+    inverseRow(plan, j);
+    for (let c = 0, o = first, d = j * nT; c < nT; c++, o += step, d++) {
+      re[d] = output[o]!;
+      im[d] = -output[o + 1]!;
+    }
+  }
+  return { re, im };
 }
 
 /**
@@ -75,7 +81,17 @@ export function cwt(plan: MorletPlan, x: Float64Array): ComplexTf {
 export function cwtPower(plan: MorletPlan, x: Float64Array, out?: Float64Array): Float64Array {
   checkInput(plan, x);
   const dest = checkOut(plan, out);
-  transform(plan, x, MODE_POWER, dest, dest, 0);
+  if (!forwardSpectrum(plan, x)) return dest;
+  const { output } = plan.kernel;
+  const { nT, first, step } = columns(plan);
+  for (let j = 0; j < plan.nFrequencies; j++) {
+    inverseRow(plan, j);
+    for (let c = 0, o = first, d = j * nT; c < nT; c++, o += step, d++) {
+      const re = output[o]!;
+      const im = output[o + 1]!;
+      dest[d] = re * re + im * im;
+    }
+  }
   return dest;
 }
 
@@ -93,7 +109,18 @@ export function cwtLogPower(plan: MorletPlan, x: Float64Array, out?: Float64Arra
                             floor: number = DEFAULT_LOG_POWER_FLOOR): Float64Array {
   checkInput(plan, x);
   const dest = checkOut(plan, out);
-  transform(plan, x, MODE_LOG_POWER, dest, dest, floor);
+  if (!forwardSpectrum(plan, x)) return dest;
+  const { output } = plan.kernel;
+  const { nT, first, step } = columns(plan);
+  for (let j = 0; j < plan.nFrequencies; j++) {
+    inverseRow(plan, j);
+    for (let c = 0, o = first, d = j * nT; c < nT; c++, o += step, d++) {
+      const re = output[o]!;
+      const im = output[o + 1]!;
+      const pw = re * re + im * im;
+      dest[d] = Math.log(pw < floor ? floor : pw);
+    }
+  }
   return dest;
 }
 
@@ -110,61 +137,63 @@ function checkOut(plan: MorletPlan, out: Float64Array | undefined): Float64Array
   return out;
 }
 
-// One loop nest: load with padding, one forward real FFT, then per frequency fold the band,
-// one short FFT, and write the requested columns. The inverse DFT runs as a forward FFT of the
-// conjugate, IFFT_L(z) = conj(FFT_L(conj z))/L, with 1/L folded into the weights: `folded`
-// holds conj(Z) and `output` holds conj(W), so im(W) = −output_im.
-function transform(plan: MorletPlan, x: Float64Array, mode: number, outA: Float64Array, outB: Float64Array,
-                   floor: number): void {
-  const nT = plan.nTimes;
-  if (nT === 0 || plan.nSamples === 0) return;
-  const k = plan.kernel;
-  const { padded, spectrum, folded, output, source, weights, bandStart, bandLength, weightOffset } = k;
-  const m = plan.fftSize;
-  for (let p = 0; p < m; p++) {
+// The kernel, in three steps: load with padding and one forward real FFT per signal; per
+// frequency fold the band and run one short FFT; the callers read the requested columns.
+// The inverse DFT runs as a forward FFT of the conjugate, IFFT_L(z) = conj(FFT_L(conj z))/L,
+// with 1/L folded into the weights: `folded` holds conj(Z) and `output` holds conj(W) in the
+// interleaved layout, so W = output_re − i·output_im at inverse sample m0 + q·c.
+
+/** Loads x (padding, grid shift) and computes its spectrum; false when there is nothing to compute. */
+function forwardSpectrum(plan: MorletPlan, x: Float64Array): boolean {
+  if (plan.nTimes === 0 || plan.nSamples === 0) return false;
+  const { padded, source, spectrum, forward } = plan.kernel;
+  for (let p = 0; p < padded.length; p++) {
     const i = source[p]!;
     padded[p] = i >= 0 ? x[i]! : 0;
   }
-  k.forward.realTransform(spectrum, padded);
-  const l = k.inverseSize;
-  const step = 2 * k.columnStride;
-  const first = 2 * k.firstColumn;
-  for (let j = 0; j < plan.nFrequencies; j++) {
-    folded.fill(0);
-    const len = bandLength[j]!;
-    let w = weightOffset[j]!;
-    let bin = 2 * bandStart[j]!;
-    let rho = bandStart[j]! % l;
-    // Residues run rho .. l − 1, then 0 .. l − 1 again for bands wider than L (exact folding).
-    for (let left = len; left > 0; rho = 0) {
-      const run = Math.min(left, l - rho);
-      for (let f = 2 * rho, end = 2 * (rho + run); f < end; f += 2, bin += 2, w++) {
-        const wt = weights[w]!;
-        folded[f] = folded[f]! + spectrum[bin]! * wt;
-        folded[f + 1] = folded[f + 1]! - spectrum[bin + 1]! * wt;
-      }
-      left -= run;
+  forward.realTransform(spectrum, padded);
+  return true;
+}
+
+/** Interleaved offsets of the requested columns in `kernel.output`. */
+function columns(plan: MorletPlan): { nT: number; first: number; step: number } {
+  return { nT: plan.nTimes, first: 2 * plan.kernel.firstColumn, step: 2 * plan.kernel.columnStride };
+}
+
+/** Frequency row j: fold its band of the current spectrum and run the short FFT into kernel.output. */
+function inverseRow(plan: MorletPlan, j: number): void {
+  const k = plan.kernel;
+  foldBand(k.folded, k.spectrum, k.weights, k.bandStart[j]!, k.bandLength[j]!, k.weightOffset[j]!, k.inverseSize);
+  k.inverse.transform(k.output, k.folded);
+}
+
+// folded = conj(Z), Z_ρ = Σ_{k ≡ ρ (mod L)} x̂_k·w_k over the band (interleaved complex, [2L]).
+// The first min(len, L) bins land on distinct residues and are assigned; later laps (bands wider
+// than L) accumulate; residues the band never reaches are zeroed.
+function foldBand(folded: Float64Array, spectrum: Float64Array, weights: Float64Array, start: number, len: number,
+                  w0: number, l: number): void {
+  if (len < l) folded.fill(0);
+  let w = w0;
+  let bin = 2 * start;
+  let rho = start % l;
+  const firstLap = Math.min(len, l);
+  for (let done = 0; done < firstLap;) {
+    const run = Math.min(firstLap - done, l - rho);
+    for (let f = 2 * rho, end = 2 * (rho + run); f < end; f += 2, bin += 2, w++) {
+      const wt = weights[w]!;
+      folded[f] = spectrum[bin]! * wt;
+      folded[f + 1] = -spectrum[bin + 1]! * wt;
     }
-    k.inverse.transform(output, folded);
-    const row = j * nT;
-    if (mode === MODE_COMPLEX) {
-      for (let c = 0, o = first; c < nT; c++, o += step) {
-        outA[row + c] = output[o]!;
-        outB[row + c] = -output[o + 1]!;
-      }
-    } else if (mode === MODE_POWER) {
-      for (let c = 0, o = first; c < nT; c++, o += step) {
-        const re = output[o]!;
-        const im = output[o + 1]!;
-        outA[row + c] = re * re + im * im;
-      }
-    } else {
-      for (let c = 0, o = first; c < nT; c++, o += step) {
-        const re = output[o]!;
-        const im = output[o + 1]!;
-        const pw = re * re + im * im;
-        outA[row + c] = Math.log(pw < floor ? floor : pw);
-      }
+    done += run;
+    rho = rho + run === l ? 0 : rho + run;
+  }
+  for (let left = len - firstLap; left > 0; rho = 0) {
+    const run = Math.min(left, l - rho);
+    for (let f = 2 * rho, end = 2 * (rho + run); f < end; f += 2, bin += 2, w++) {
+      const wt = weights[w]!;
+      folded[f] = folded[f]! + spectrum[bin]! * wt;
+      folded[f + 1] = folded[f + 1]! - spectrum[bin + 1]! * wt;
     }
+    left -= run;
   }
 }
