@@ -8,6 +8,10 @@
  * CHUNK and GAP frames tile the sample axis without holes or overlap; a frame already stored
  * (seq <= last accepted) is a duplicate and is acknowledged again, never stored twice.
  *
+ * Connections: when a session's bridge reconnects while its old connection still looks open,
+ * close the old one and call `disconnect()` before passing the new HELLO; a closing old
+ * connection must not call `disconnect()` once a newer one has taken over.
+ *
  * Durability: `receive` only accepts. The caller stores what an event carries and then calls
  * `commit(event.seq)`, which returns the ACK to send (the bridge discards what is acknowledged,
  * so acknowledge only after commit). Commit each event before receiving the next frame.
