@@ -107,19 +107,10 @@ export function cwtPower(plan: MorletPlan, x: Float64Array, out?: Float64Array):
  */
 export function cwtLogPower(plan: MorletPlan, x: Float64Array, out?: Float64Array,
                             floor: number = DEFAULT_LOG_POWER_FLOOR): Float64Array {
-  checkInput(plan, x);
-  const dest = checkOut(plan, out);
-  if (!forwardSpectrum(plan, x)) return dest;
-  const { output } = plan.kernel;
-  const { nT, first, step } = columns(plan);
-  for (let j = 0; j < plan.nFrequencies; j++) {
-    inverseRow(plan, j);
-    for (let c = 0, o = first, d = j * nT; c < nT; c++, o += step, d++) {
-      const re = output[o]!;
-      const im = output[o + 1]!;
-      const pw = re * re + im * im;
-      dest[d] = Math.log(pw < floor ? floor : pw);
-    }
+  const dest = cwtPower(plan, x, out); // checks x and out
+  for (let i = 0; i < dest.length; i++) {
+    const pw = dest[i]!;
+    dest[i] = Math.log(pw < floor ? floor : pw);
   }
   return dest;
 }
