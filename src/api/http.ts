@@ -138,6 +138,48 @@ export async function request<T>(method: Method, path: string, opts: RequestOpti
   }
 }
 
+/**
+ * Send raw bytes (a file upload, Content-Type application/octet-stream) with the same CSRF
+ * header, retry and error handling as `request`; resolves with the parsed JSON answer.
+ */
+export async function uploadBytes<T>(path: string, bytes: Blob | ArrayBuffer, opts: Omit<RequestOptions<T>, 'body'> = {}): Promise<T> {
+  const url = buildUrl(path, opts.query);
+  const post = async (): Promise<Response> => fetch(url, {
+    method: 'POST',
+    headers: {
+      Accept: 'application/json',
+      'Content-Type': 'application/octet-stream',
+      'X-CSRF-Token': csrfToken ?? (await fetchCsrfToken()),
+    },
+    credentials: 'same-origin',
+    body: bytes,
+    signal: opts.signal,
+  });
+  let res: Response;
+  let body: unknown;
+  try {
+    res = await post();
+    body = await readBody(res);
+    if (res.status === 403 && isCsrfRefusal(body)) {
+      csrfToken = null;
+      res = await post();
+      body = await readBody(res);
+    }
+  } catch (e) {
+    throw toApiError(e);
+  }
+  if (!res.ok) {
+    if (res.status === 401) onUnauthorized?.(path);
+    throw errorFromBody(res.status, body, res.statusText);
+  }
+  if (!opts.schema) return body as T;
+  try {
+    return opts.schema.parse(body);
+  } catch {
+    throw new ApiError('bad-response', `Unexpected response from POST ${path}`, res.status);
+  }
+}
+
 function isCsrfRefusal(body: unknown): boolean {
   return apiErrorBodySchema.safeParse(body).data?.error.code === 'csrf';
 }

@@ -35,6 +35,41 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Study', permission: 'study:read' },
   },
   {
+    path: '/studies/:studyId(\\d+)/decoders',
+    name: 'decoders',
+    component: () => import('../views/DecodersView.vue'),
+    props: (route) => ({ studyId: Number(route.params.studyId) }),
+    meta: { title: 'Decoders', permission: 'decoder:read' },
+  },
+  {
+    path: '/decoders/:decoderId(\\d+)',
+    name: 'decoder',
+    component: () => import('../views/DecoderDetailView.vue'),
+    props: (route) => ({ decoderId: Number(route.params.decoderId) }),
+    meta: { title: 'Decoder', permission: 'decoder:read' },
+  },
+  {
+    path: '/sessions',
+    name: 'sessions',
+    component: () => import('../views/SessionListView.vue'),
+    meta: { title: 'Sessions', permission: 'session:read' },
+  },
+  {
+    path: '/sessions/:sessionId(\\d+)',
+    name: 'session',
+    component: () => import('../views/SessionConsoleView.vue'),
+    props: (route) => ({ sessionId: Number(route.params.sessionId) }),
+    meta: { title: 'Session console', permission: 'session:read' },
+  },
+  {
+    // The participant's screen: no account, a one-time token bound to one session.
+    path: '/display/:token',
+    name: 'display',
+    component: () => import('../views/ParticipantDisplayView.vue'),
+    props: (route) => ({ token: String(route.params.token) }),
+    meta: { title: 'Participant display', public: true },
+  },
+  {
     path: '/rigs',
     name: 'rigs',
     component: () => import('../views/AdminRigsView.vue'),

@@ -21,20 +21,20 @@ describe('TheNavBar', () => {
   it('hides admin and rig items from a reviewer', async () => {
     signInAs('reviewer');
     const labels = await navLabels();
-    // Permissions per role: shared/api/roles.ts PERMISSIONS (reviewer holds study:read only).
-    expect(labels).toEqual(['Studies', 'About']);
+    // Permissions per role: shared/api/roles.ts PERMISSIONS (reviewer holds study:read and session:read, no rig:read).
+    expect(labels).toEqual(['Studies', 'Sessions', 'About']);
   });
 
   it('shows rigs but no admin items to an experimenter', async () => {
     signInAs('experimenter');
     // shared/api/roles.ts: experimenter holds rig:read, not user:manage / audit:read / outbox:read.
-    expect(await navLabels()).toEqual(['Studies', 'Rigs', 'About']);
+    expect(await navLabels()).toEqual(['Studies', 'Sessions', 'Rigs', 'About']);
   });
 
   it('shows every item to an admin', async () => {
     signInAs('admin');
     // shared/api/roles.ts: admin holds every permission.
-    expect(await navLabels()).toEqual(['Studies', 'Rigs', 'About', 'Users', 'Audit log', 'Outbox']);
+    expect(await navLabels()).toEqual(['Studies', 'Sessions', 'Rigs', 'About', 'Users', 'Audit log', 'Outbox']);
   });
 
   it('names the signed-in user and their role', async () => {
