@@ -22,8 +22,9 @@ export interface RunBridgeOptions {
 // Always a real timer, even when behind schedule: the socket's ACKs are read in between.
 const sleep = (ms: number, signal?: AbortSignal) => new Promise<void>((resolve) => {
   if (signal?.aborted) { resolve(); return; }
-  const t = setTimeout(resolve, Math.max(0, ms));
-  signal?.addEventListener('abort', () => { clearTimeout(t); resolve(); }, { once: true });
+  const onAbort = () => { clearTimeout(t); resolve(); };
+  const t = setTimeout(() => { signal?.removeEventListener('abort', onAbort); resolve(); }, Math.max(0, ms));
+  signal?.addEventListener('abort', onAbort, { once: true });
 });
 
 export async function runBridge(source: FeedSource, client: FeedBridgeClient, opts: RunBridgeOptions = {}): Promise<BridgeStats> {
