@@ -22,7 +22,17 @@ export interface TrainOptions {
   channelNames?: string[];
 }
 
+/** A trained decoder: its live form and its artifact (the layout server/live/decoder-loader.ts reads). */
+export interface TrainedDecoder {
+  live: LiveDecoder;
+  artifact: { classes: string[]; preprocess: ReturnType<typeof designPreprocessing>; window: EpochWindow; pipeline: unknown };
+}
+
 export function trainDecoder(rec: Recording, o: TrainOptions): LiveDecoder {
+  return trainDecoderWithArtifact(rec, o).live;
+}
+
+export function trainDecoderWithArtifact(rec: Recording, o: TrainOptions): TrainedDecoder {
   const spec = designPreprocessing({
     sampleRateHz: rec.sampleRateHz, channelNames: o.channelNames ?? rec.channelNames, bandpassHz: o.bandpassHz ?? [8, 30],
     notchHz: o.notchHz ?? null, car: o.car ?? false,
@@ -31,5 +41,8 @@ export function trainDecoder(rec: Recording, o: TrainOptions): LiveDecoder {
   const { epochs, labels } = epochRecording(filtered, { classes: o.classes }, o.window.tminS, o.window.tmaxS);
   const stages = (o.recipe ?? 'covariance') === 'covariance' ? covarianceStages({ count: 6 }) : cspLdaRecipe(3);
   const pipeline = fitPipeline(stages, epochs, labels, { seed: 1, innerK: 3 });
-  return liveDecoderFromParts({ classes: o.classes, preprocess: spec, window: o.window, pipeline });
+  return {
+    live: liveDecoderFromParts({ classes: o.classes, preprocess: spec, window: o.window, pipeline }),
+    artifact: { classes: [...o.classes], preprocess: spec, window: o.window, pipeline: pipeline.toArtifact() },
+  };
 }
