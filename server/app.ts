@@ -17,6 +17,7 @@ import { auditRouter, outboxRouter } from './routes/admin';
 import { authRouter } from './routes/auth';
 import { healthRouter } from './routes/health';
 import { participantsRouter } from './routes/participants';
+import { recordingsRouter } from './routes/recordings';
 import { rigsRouter } from './routes/rigs';
 import { studiesRouter } from './routes/studies';
 import { usersRouter } from './routes/users';
@@ -92,6 +93,7 @@ export function buildApp(ctx: AppContext, services: Services): BuiltApp {
   api.use('/audit', auditRouter(services.audit));
   api.use('/outbox', outboxRouter(services.outbox));
   api.use('/studies/:studyId/participants', participantsRouter(services.participants));
+  api.use('/studies/:studyId/recordings', recordingsRouter(services.recordings));
   api.use('/studies', studiesRouter(services.studies));
   api.use(apiNotFound);
   app.use('/api', api);

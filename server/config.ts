@@ -35,6 +35,10 @@ export interface StartOptions {
   loginRateLimit?: { max: number; windowMs: number };
   /** Folder of the built client; default dist/client (served only when it exists). */
   clientDir?: string;
+  /** On first start, also train and freeze the demo study's decoder in the background. Default true. */
+  demoDecoder?: boolean;
+  /** Training jobs run at once, each in its own worker thread. Default 1. */
+  trainingConcurrency?: number;
 }
 
 export interface Config {
@@ -56,6 +60,8 @@ export interface Config {
   loginRateLimit: { max: number; windowMs: number };
   clientDir: string;
   sessionSecret: string;
+  demoDecoder: boolean;
+  trainingConcurrency: number;
 }
 
 export class ConfigError extends Error {
@@ -107,6 +113,8 @@ export function resolveConfig(opts: StartOptions): Config {
   const limit = opts.loginRateLimit ?? { max: 10, windowMs: 15 * 60_000 };
   check(isInt(limit.max, 1, 1_000_000) && isInt(limit.windowMs, 1000, 86_400_000), 'loginRateLimit',
     'needs max 1..1e6 and windowMs 1000..86400000');
+  const trainingConcurrency = opts.trainingConcurrency ?? 1;
+  check(isInt(trainingConcurrency, 1, 16), 'trainingConcurrency', `must be an integer 1..16, got '${String(opts.trainingConcurrency)}'`);
 
   const memory = opts.dataDir === ':memory:';
   const dataDir = memory ? null : resolve(opts.dataDir ?? './data');
@@ -129,5 +137,7 @@ export function resolveConfig(opts: StartOptions): Config {
     loginRateLimit: limit,
     clientDir: resolve(opts.clientDir ?? fileURLToPath(new URL('../dist/client', import.meta.url))),
     sessionSecret: sessionSecretFor(dataDir),
+    demoDecoder: opts.demoDecoder ?? true,
+    trainingConcurrency,
   };
 }

@@ -4,6 +4,7 @@ import { auditService } from './audit';
 import { authService } from './auth';
 import { outboxService } from './outbox';
 import { participantService } from './participants';
+import { recordingService } from './recordings';
 import { rigService } from './rigs';
 import { studyService } from './studies';
 import { userService } from './users';
@@ -17,6 +18,7 @@ export function createServices(ctx: AppContext) {
     outbox: outboxService(ctx),
     studies: studyService(ctx),
     participants: participantService(ctx),
+    recordings: recordingService(ctx),
   };
 }
 export type Services = ReturnType<typeof createServices>;

@@ -62,6 +62,11 @@ export const ROUTES: readonly RouteCase[] = [
   { method: 'POST', pattern: '/api/studies/:studyId/participants', sample: '/api/studies/1/participants', body: {}, access: RECORDING_STAFF },
   { method: 'PATCH', pattern: '/api/studies/:studyId/participants/:participantId', sample: '/api/studies/1/participants/1', body: {},
     access: RECORDING_STAFF },
+
+  // Issue 6 contract: decoder:read, study:read all; decoder:import, recording:upload, training:run investigator+experimenter+admin;
+  // decoder:freeze investigator+admin.
+  { method: 'GET', pattern: '/api/studies/:studyId/recordings', sample: '/api/studies/1/recordings', access: ALL },
+  { method: 'POST', pattern: '/api/studies/:studyId/recordings', sample: '/api/studies/1/recordings', body: {}, access: RECORDING_STAFF },
 ];
 
 interface LayerLike {

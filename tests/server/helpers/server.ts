@@ -16,7 +16,7 @@ export const EMAILS = {
 export function startTestServer(opts: StartOptions = {}): Promise<ServerHandle> {
   return start({
     port: 0, dataDir: ':memory:', quiet: true, bcryptCost: 4, demoPassword: DEMO_PASSWORD,
-    loginRateLimit: { max: 1000, windowMs: 60_000 }, ...opts,
+    loginRateLimit: { max: 1000, windowMs: 60_000 }, demoDecoder: false, ...opts,
   });
 }
 
