@@ -129,7 +129,7 @@ describe('the bridge client against a local acceptor', () => {
     const events: BridgeEvent[] = [];
     const { client, source } = makeClient(server.url, 'k-3', events, 250);
     const run = runBridge(source, client, { speed: 60, seconds: SECONDS, chunkMs: 40 });
-    await new Promise((r) => setTimeout(r, 100));
+    while (server.sessions.size === 0 || source.nextSample < 5 * 250) await new Promise((r) => setTimeout(r, 5));
     server.turnAway = true;
     for (const c of [...server.sessions.values()].map((x) => x.active)) c?.terminate();
     await new Promise((r) => setTimeout(r, 150));
