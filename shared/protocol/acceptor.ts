@@ -19,7 +19,7 @@
 import { decodeFrame } from './decode';
 import { encodeAck, encodeKeepalive, encodeRefuse } from './encode';
 import {
-  FEED_LIMITS, FeedCloseCode, FeedProtocolError,
+  FEED_LIMITS, FeedProtocolError,
   type ChunkFrame, type CueFrame, type FeedLimits, type GapFrame, type HelloFrame,
 } from './frames';
 
