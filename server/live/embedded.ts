@@ -18,7 +18,12 @@ export function loadProfile(name: string): Record<string, unknown> {
 export class EmbeddedBridges {
   private readonly running = new Map<number, { feed: SimulatedFeed; conn: FeedConnection }>();
 
-  constructor(private readonly ingest: FeedIngest, private readonly speed: number) {}
+  /** Multiple of real time for feeds started from now on (tests and benchmarks raise it). */
+  speed: number;
+
+  constructor(private readonly ingest: FeedIngest, speed: number) {
+    this.speed = speed;
+  }
 
   /** A feed for the rig, not yet connected: check its header, then `connect()`. */
   prepare(rigId: number, profileName: string, sessionId: number): { header: HelloFrame; connect(): void } {

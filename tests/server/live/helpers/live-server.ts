@@ -35,15 +35,17 @@ export async function newRig(admin: Client, name: string): Promise<{ id: number;
   return { id: res.body.rig.id as number, key: res.body.rigKey as string };
 }
 
-/** Inserts a frozen decoder of `studyId` whose artifact is `d.artifact` (JSON). */
-export function insertFrozenDecoder(h: ServerHandle, studyId: number, d: TrainedDecoder, name = 'Test decoder'): number {
+/** Inserts a frozen (or draft) decoder of `studyId` whose artifact is `d.artifact` (JSON). */
+export function insertFrozenDecoder(h: ServerHandle, studyId: number, d: TrainedDecoder, name = 'Test decoder',
+                                    status: 'frozen' | 'draft' = 'frozen'): number {
   const text = JSON.stringify(d.artifact);
   const sha = createHash('sha256').update(text).digest('hex');
   const now = Date.now();
   const r = h.db.sqlite.prepare(`INSERT INTO decoders (study_id, name, recipe, classes, channel_names, sample_rate_hz, epoch_start_s,
-    epoch_end_s, artifact, sha256, status, metrics, source, created_at, frozen_at) VALUES (?, ?, 'covariance', ?, ?, ?, ?, ?, ?, ?, 'frozen',
+    epoch_end_s, artifact, sha256, status, metrics, source, created_at, frozen_at) VALUES (?, ?, 'covariance', ?, ?, ?, ?, ?, ?, ?, ?,
     '{}', 'import', ?, ?)`).run(studyId, name, JSON.stringify(d.artifact.classes), JSON.stringify(d.artifact.preprocess.channelNames),
-    d.artifact.preprocess.sampleRateHz, d.artifact.window.tminS, d.artifact.window.tmaxS, text, sha, now, now);
+    d.artifact.preprocess.sampleRateHz, d.artifact.window.tminS, d.artifact.window.tmaxS, text, sha, status, now,
+    status === 'frozen' ? now : null);
   return Number(r.lastInsertRowid);
 }
 
