@@ -26,7 +26,7 @@ export interface SimulationState {
   readonly profile: SimulationProfile;
   readonly seed: number;
   readonly sampleRateHz: number;
-  /** Channel names as written in the profile. */
+  /** Channel names in canonical 10-10 spelling (profile order). */
   readonly channelNames: string[];
   /** Samples in one run (classes x trialsPerClass cues, then the last epoch and 1 s). */
   readonly runLengthSamples: number;
@@ -82,7 +82,7 @@ export function createSimulation(profile: SimulationProfile | unknown, opts: { s
   const before = Math.min(0, ...p.effects.map((e) => Math.round(e.onsetS * fs)));
   const after = Math.max(0, ...p.effects.map((e) => Math.round((e.onsetS + e.durationS) * fs)));
   return {
-    profile: p, seed, sampleRateHz: fs, channelNames: [...p.channels], runLengthSamples: runLengthSamples(p, seed),
+    profile: p, seed, sampleRateHz: fs, channelNames: canonical, runLengthSamples: runLengthSamples(p, seed),
     nextSample: 0, sources, effects, cueSchedule: new CueSchedule(p, seed),
     artifacts: new ArtifactGenerator(p, seed, electrodes, live),
     sensorRngs: p.channels.map((_, c) => stream(seed, 'sensor', c)),

@@ -104,6 +104,12 @@ describe('the generator', () => {
     expect(cues.every((c) => c.block === 0)).toBe(true);
   });
 
+  it('names channels in canonical 10-10 spelling whatever the profile wrote', () => {
+    const st = createSimulation(busyProfile({ channels: ['fp1', 'C3..', 'T4', 'cz'], artifacts: { ...busyProfile().artifacts, flatChannels: [] } }));
+    // shared/montage normaliseChannelName / positionOf (ACNS: T4 is now T8).
+    expect(st.channelNames).toEqual(['Fp1', 'C3', 'T8', 'Cz']);
+  });
+
   it('keeps cueing after the first run: the next block is balanced too', () => {
     const st = createSimulation(busyProfile());
     generateChunk(st, 2 * st.runLengthSamples);
