@@ -1,0 +1,220 @@
+/**
+ * Pre-processing as it runs live, and the same code offline.
+ *
+ * The continuous signal goes through a causal Butterworth band-pass (second-order sections),
+ * an optional IIR notch, then the common average reference (CAR), with the filter state carried
+ * from chunk to chunk; epochs are cut from the filtered signal at each cue. Offline training
+ * runs exactly this path on a whole run: a fresh state and one chunk (`preprocessRecording`).
+ * Filtering first and re-referencing after is the same linear map as the other order (every
+ * channel gets the same filter), and it keeps CAR memoryless on filtered samples.
+ *
+ * Start-up: the filter state is initialised from the first sample of each channel as a steady
+ * state (SciPy's `sosfilt_zi` × x[0]; Gustafsson 1996), so a DC offset does not ring through the
+ * first seconds. The stream and the offline path do this identically, so their outputs agree
+ * to rounding for any chunking.
+ *
+ * Sample rule (same as shared/decoder/epochs.ts): a cue at sample c has its epoch start at
+ * c + round(tminS·fs) and round(tmaxS·fs) − round(tminS·fs) samples; the epoch is complete once
+ * sample start + length − 1 has arrived.
+ */
+import { butterSos, commonAverageReferenceInPlace, iirNotchSos, sosfiltChunk, steadyStateFor, type Sos, type SosState } from '../dsp';
+import { ParamError, ShapeError, type ChannelMajor, type Recording } from '../types';
+import { normaliseChannelName } from '../montage';
+
+/** Everything the live path needs to turn raw samples into filtered, re-referenced samples. */
+export interface PreprocessSpec {
+  sampleRateHz: number;
+  /** Channel order every chunk must follow. */
+  channelNames: string[];
+  /** Butterworth band-pass: order, edges (Hz) and its sections as designed by `butterSos`. */
+  bandpass: { order: number; edgesHz: [number, number]; sos: Sos };
+  /** Optional IIR notch (SciPy's iirnotch design) applied after the band-pass. */
+  notch: { f0Hz: number; q: number; sos: Sos } | null;
+  /** Common average reference over all channels after filtering. */
+  car: boolean;
+}
+
+/** Epoch window relative to the cue, seconds (tmax exclusive), and its sample form. */
+export interface EpochWindow {
+  tminS: number;
+  tmaxS: number;
+}
+
+/** Hyperparameters of `designPreprocessing`. */
+export interface PreprocessParams {
+  sampleRateHz: number;
+  channelNames: string[];
+  /** Band-pass edges, Hz. */
+  bandpassHz: [number, number];
+  /** Butterworth order (band-pass of order N has N sections); default 4. */
+  order?: number;
+  /** Notch frequency (50 or 60 Hz mains), or null for none; default null. */
+  notchHz?: number | null;
+  /** Notch quality factor; default 30 (common practice for mains). */
+  notchQ?: number;
+  car: boolean;
+}
+
+/** Designs the filters (data, not code: an artifact stores the sections). */
+export function designPreprocessing(p: PreprocessParams): PreprocessSpec {
+  const order = p.order ?? 4;
+  const notchHz = p.notchHz ?? null;
+  const q = p.notchQ ?? 30;
+  if (p.channelNames.length < 1) throw new ParamError('channelNames', 'expected at least one channel');
+  return {
+    sampleRateHz: p.sampleRateHz,
+    channelNames: [...p.channelNames],
+    bandpass: { order, edgesHz: [p.bandpassHz[0], p.bandpassHz[1]], sos: butterSos(order, p.bandpassHz, 'bandpass', p.sampleRateHz) },
+    notch: notchHz === null ? null : { f0Hz: notchHz, q, sos: iirNotchSos(notchHz, q, p.sampleRateHz) },
+    car: p.car,
+  };
+}
+
+/** The cascade the stream runs: band-pass sections, then the notch section(s). */
+export function cascadeOf(spec: PreprocessSpec): Sos {
+  return spec.notch === null ? spec.bandpass.sos : [...spec.bandpass.sos, ...spec.notch.sos];
+}
+
+/** Sample offset of the epoch start from the cue sample, and the epoch length in samples. */
+export function epochSamples(window: EpochWindow, sampleRateHz: number): { offset: number; length: number } {
+  const offset = Math.round(window.tminS * sampleRateHz);
+  const length = Math.round(window.tmaxS * sampleRateHz) - offset;
+  if (!(length >= 1)) throw new ParamError('window', `expected at least one sample, got [${window.tminS}, ${window.tmaxS}) s`);
+  return { offset, length };
+}
+
+/** A filtered, re-referenced epoch cut by a DecoderStream or `preprocessRecording` (never raw samples). */
+export interface FilteredEpoch {
+  readonly kind: 'filtered-epoch';
+  /** [channel][sample], µV, in the decoder's channel order; first sample = cue + tmin. */
+  readonly data: ChannelMajor;
+  /** Sample index of the cue in the stream. */
+  readonly cueSample: number;
+}
+
+/**
+ * Raw (unfiltered) samples around one cue, for a decoder that should filter them itself. The
+ * filter starts fresh (steady state) at the segment's first sample, so give it a run-in before
+ * the epoch: the longer, the closer the result to the continuous stream's.
+ */
+export interface RawSegment {
+  readonly kind: 'raw-segment';
+  /** [channel][sample], µV, in the decoder's channel order. */
+  readonly data: ChannelMajor;
+  /** Index (within `data`) of the cue sample. */
+  readonly cueIndex: number;
+}
+
+/** Live pre-processing of a feed: push raw chunks, ask for a filtered epoch once it is complete. */
+export interface DecoderStream {
+  /** Samples received so far (the next chunk's first sample has this index). */
+  readonly samplesReceived: number;
+  /** Filters one raw chunk [channel][sample] (µV, decoder channel order); advances the state. */
+  push(chunk: ChannelMajor): void;
+  /**
+   * The filtered epoch of a cue at stream sample `cueSample`, or null while its last sample has
+   * not arrived. Throws ParamError when the window starts before sample 0 or before the oldest
+   * sample still held (`historyS`).
+   */
+  epochAt(cueSample: number): FilteredEpoch | null;
+}
+
+/** Options of `createPreprocessStream`. */
+export interface StreamOptions {
+  /** Filtered history kept for late epoch requests, seconds beyond the epoch span; default 30. */
+  historyS?: number;
+}
+
+/**
+ * A stream over `spec` for epochs of `window` (see module comment for the state and sample
+ * rules). The decoder-level `createDecoderStream` (predict.ts) wraps this with a loaded decoder.
+ */
+export function createPreprocessStream(spec: PreprocessSpec, window: EpochWindow, opts: StreamOptions = {}): DecoderStream {
+  const fs = spec.sampleRateHz;
+  const channels = spec.channelNames.length;
+  const sos = cascadeOf(spec);
+  const { offset, length } = epochSamples(window, fs);
+  const capacity = Math.max(length, 1) + Math.max(offset, 0) + Math.ceil((opts.historyS ?? 30) * fs);
+  const ring = Array.from({ length: channels }, () => new Float64Array(capacity));
+  let state: SosState | null = null;
+  let received = 0;
+  let scratch = new Float64Array(0);
+
+  return {
+    get samplesReceived() { return received; },
+    push(chunk) {
+      if (chunk.length !== channels) throw new ShapeError('chunk', `expected ${channels} channels, got ${chunk.length}`);
+      const n = chunk[0]!.length;
+      if (n === 0) return;
+      if (state === null) state = steadyStateFor(sos, Float64Array.from(chunk, (c) => c[0]!));
+      const y = sosfiltChunk(sos, chunk, state);
+      if (spec.car) {
+        if (scratch.length < n) scratch = new Float64Array(n);
+        commonAverageReferenceInPlace(y, undefined, scratch);
+      }
+      for (let c = 0; c < channels; c++) {
+        const src = y[c]!, dst = ring[c]!;
+        // Only the last `capacity` samples of a long chunk can be held.
+        const from = Math.max(0, n - capacity);
+        for (let i = from; i < n; i++) dst[(received + i) % capacity] = src[i]!;
+      }
+      received += n;
+    },
+    epochAt(cueSample) {
+      if (!Number.isInteger(cueSample)) throw new ParamError('cueSample', `expected an integer sample index, got ${cueSample}`);
+      const start = cueSample + offset;
+      if (start < 0) throw new ParamError('cueSample', `epoch would start at sample ${start}, before the stream began`);
+      if (start + length > received) return null;
+      if (start < received - capacity) {
+        throw new ParamError('cueSample', `epoch starting at sample ${start} is older than the ${capacity} samples held`);
+      }
+      const data = ring.map((r) => {
+        const out = new Float64Array(length);
+        for (let i = 0; i < length; i++) out[i] = r[(start + i) % capacity]!;
+        return out;
+      });
+      return { kind: 'filtered-epoch', data, cueSample };
+    },
+  };
+}
+
+/**
+ * Offline form of the live path: the whole run as one chunk through a fresh stream.
+ * @param data [channel][sample] raw µV in the spec's channel order (not modified)
+ * @returns [channel][sample] filtered and re-referenced µV
+ */
+export function preprocessContinuous(spec: PreprocessSpec, data: ChannelMajor): ChannelMajor {
+  const channels = spec.channelNames.length;
+  if (data.length !== channels) throw new ShapeError('data', `expected ${channels} channels, got ${data.length}`);
+  const n = data[0]?.length ?? 0;
+  if (n === 0) return data.map(() => new Float64Array(0));
+  const sos = cascadeOf(spec);
+  const state = steadyStateFor(sos, Float64Array.from(data, (c) => c[0]!));
+  const y = sosfiltChunk(sos, data, state);
+  return spec.car ? commonAverageReferenceInPlace(y) : y;
+}
+
+/**
+ * The recording's channels in the order `names` asks for, matched by canonical 10-10 name
+ * (`normaliseChannelName`, so 'C3..' matches 'C3'). The arrays are shared, not copied.
+ * @throws ShapeError naming the first missing channel
+ */
+export function channelsInOrder(rec: Recording, names: readonly string[]): ChannelMajor {
+  const index = new Map(rec.channelNames.map((n, i) => [normaliseChannelName(n), i]));
+  return names.map((name) => {
+    const i = index.get(normaliseChannelName(name));
+    if (i === undefined) throw new ShapeError('channelNames', `the recording has no channel '${name}'`);
+    return rec.data[i]!;
+  });
+}
+
+/**
+ * A recording pre-processed as the live path would (fresh state, one chunk), with its channels
+ * put in the spec's order; annotations and timing unchanged.
+ */
+export function preprocessRecording(spec: PreprocessSpec, rec: Recording): Recording {
+  if (rec.sampleRateHz !== spec.sampleRateHz) {
+    throw new ShapeError('rec.sampleRateHz', `expected ${spec.sampleRateHz} Hz, got ${rec.sampleRateHz} Hz`);
+  }
+  return { ...rec, channelNames: [...spec.channelNames], data: preprocessContinuous(spec, channelsInOrder(rec, spec.channelNames)) };
+}

@@ -1,0 +1,180 @@
+/**
+ * Prediction with a frozen decoder: the same code for a live feed, a replay and offline checks.
+ *
+ *   const decoder = loadDecoder(JSON.parse(text));        // verifies the SHA-256 seal first
+ *   const stream = createDecoderStream(decoder);           // live: raw chunks in, state carried
+ *   stream.push(chunk);                                    // [channel][sample] µV, decoder order
+ *   const p = stream.predictAt(cueSample);                 // null until the epoch's last sample
+ *   predictFilteredEpoch(decoder, stream.epochAt(cue)!);   // the same, in two steps
+ *   predictRawEpoch(decoder, { kind: 'raw-segment', data, cueIndex });  // filters a raw segment
+ *
+ * An epoch is either a FilteredEpoch (cut from the decoder's own stream, already filtered) or a
+ * RawSegment (raw samples the decoder filters from a fresh steady state); the two types carry a
+ * `kind` tag that each function checks, so one cannot be passed for the other.
+ * Scores: component-tf z = b + Σ_{k selected} ⟨W_k, (L_k − μ_k)/σ_k⟩ with L_k the binned Morlet
+ * log power of component k = U_k (x − mean) (recipes/morlet-stage.ts); covariance
+ * z = b + ⟨W, (P C Pᵀ − S̄)/s⟩ (recipes/covariance.ts). P(classes[1]) = 1/(1 + e^(−z)).
+ * These are the fitted pipeline's computations, in the same arithmetic order (tests check
+ * equality to 1e-12).
+ */
+import { applyUnmixing, type FittedIca } from '../ica/ica';
+import { ParamError, ShapeError, type ChannelMajor } from '../types';
+import { parseArtifact, type ComponentTfModel, type CovarianceModel, type DecoderArtifact } from './artifact';
+import {
+  createPreprocessStream, preprocessContinuous, type DecoderStream, type EpochWindow, type FilteredEpoch,
+  type PreprocessSpec, type RawSegment, type StreamOptions,
+} from './online';
+import { decodeF64, decodeRows } from './pipeline';
+import { covarianceFeature } from './recipes/covariance';
+import { binnedLogPower, morletGrid } from './recipes/morlet-stage';
+import { sigmoid } from './tracenorm-data';
+
+export type { FilteredEpoch, RawSegment } from './online';
+
+/** A verified artifact with its arrays decoded and its CWT plan built, ready to score epochs. */
+export interface LoadedDecoder {
+  readonly artifact: DecoderArtifact;
+  readonly classes: readonly [string, string];
+  readonly preprocess: PreprocessSpec;
+  readonly window: EpochWindow;
+  readonly epochLength: number; // samples
+  readonly epochOffset: number; // samples from the cue to the epoch start
+  /** Decision value z (log-odds of classes[1]) of one filtered epoch [channel][sample]. */
+  readonly decision: (epoch: ChannelMajor) => number;
+}
+
+/** One epoch's prediction. */
+export interface EpochPrediction {
+  /** P(classes[1]). */
+  probability: number;
+  /** 0 or 1: classes[1] when probability > 0.5. */
+  classIndex: 0 | 1;
+  predictedClass: string;
+  /** Probability of the predicted class (≥ 0.5). */
+  confidence: number;
+  /** Log-odds z. */
+  decisionValue: number;
+}
+
+/**
+ * Verifies and loads an artifact (parseArtifact: ArtifactIntegrityError when the seal does not
+ * match, ShapeError for a malformed field).
+ * @param value the parsed JSON of an artifact
+ */
+export function loadDecoder(value: unknown): LoadedDecoder {
+  const a = parseArtifact(value);
+  const preprocess: PreprocessSpec = {
+    sampleRateHz: a.sampleRateHz, channelNames: [...a.channelNames],
+    bandpass: a.preprocessing.bandpass, notch: a.preprocessing.notch, car: a.preprocessing.car,
+  };
+  const decision = a.model.kind === 'component-tf' ? componentTfDecision(a.model, a) : covarianceDecision(a.model);
+  return {
+    artifact: a, classes: [a.classes[0], a.classes[1]], preprocess,
+    window: { tminS: a.epoch.tminS, tmaxS: a.epoch.tmaxS }, epochLength: a.epoch.lengthSamples,
+    epochOffset: a.epoch.offsetSamples, decision,
+  };
+}
+
+function componentTfDecision(m: ComponentTfModel, a: DecoderArtifact): (x: ChannelMajor) => number {
+  const rows = decodeRows(m.unmixing, 'model.unmixing');
+  const ica = { mean: decodeF64(m.mean, 'model.mean'), unmixing: rows, mixing: [] } as unknown as FittedIca;
+  const grid = morletGrid({ sampleRateHz: a.sampleRateHz, nSamples: m.cwt.nSamples, lowHz: m.cwt.lowHz, highHz: m.cwt.highHz,
+                            count: m.cwt.count, cycles: m.cwt.cycles, binS: m.cwt.binS });
+  grid.frequenciesHz.forEach((f, j) => {
+    if (Math.abs(f - m.cwt.frequenciesHz[j]!) > 1e-9 * f) throw new ShapeError('model.cwt.frequenciesHz', `grid differs at ${j}: ${f} vs ${m.cwt.frequenciesHz[j]}`);
+  });
+  const size = m.blockShape.rows * m.blockShape.cols;
+  if (grid.frequenciesHz.length * grid.nBins !== size) throw new ShapeError('model.blockShape', `expected ${grid.frequenciesHz.length}×${grid.nBins}`);
+  const mu = decodeF64(m.featureMean, 'model.featureMean');
+  const sd = decodeF64(m.featureScale, 'model.featureScale');
+  const w = decodeF64(m.weights, 'model.weights');
+  const power = new Float64Array(size);
+  const scratch = new Float64Array(grid.frequenciesHz.length * grid.plan.nTimes);
+  return (x) => {
+    let acc = m.bias;
+    if (rows.length === 0) return acc;
+    const acts = applyUnmixing(ica, x);
+    acts.forEach((act, k) => {
+      binnedLogPower(grid, act, power, 0, scratch);
+      const o = k * size;
+      let s = 0;
+      for (let j = 0; j < size; j++) s += ((power[j]! - mu[o + j]!) / sd[o + j]!) * w[o + j]!;
+      acc += s;
+    });
+    return acc;
+  };
+}
+
+function covarianceDecision(m: CovarianceModel): (x: ChannelMajor) => number {
+  const p = decodeRows(m.whitening, 'model.whitening');
+  const centre = decodeF64(m.centre, 'model.centre');
+  const w = decodeF64(m.weight, 'model.weight');
+  const r = p.length;
+  const c = p[0]?.length ?? 0;
+  const f = new Float64Array(r * r), cov = new Float64Array(c * c), s = new Float64Array(r * r);
+  return (x) => {
+    covarianceFeature(p, centre, m.scale, x, f, 0, cov, s);
+    let acc = 0;
+    for (let j = 0; j < r * r; j++) acc += f[j]! * w[j]!;
+    return m.bias + acc;
+  };
+}
+
+function checkEpoch(d: LoadedDecoder, data: ChannelMajor, field: string): void {
+  const c = d.preprocess.channelNames.length;
+  if (data.length !== c) throw new ShapeError(field, `expected ${c} channels (the decoder's order), got ${data.length}`);
+  data.forEach((ch, i) => {
+    if (ch.length !== d.epochLength) throw new ShapeError(`${field}[${i}]`, `expected ${d.epochLength} samples, got ${ch.length}`);
+  });
+}
+
+function toPrediction(d: LoadedDecoder, z: number): EpochPrediction {
+  const probability = sigmoid(z);
+  const classIndex = probability > 0.5 ? 1 : 0;
+  return { probability, classIndex, predictedClass: d.classes[classIndex], confidence: classIndex === 1 ? probability : 1 - probability,
+           decisionValue: z };
+}
+
+/** Prediction for an epoch that was filtered by the decoder's own pre-processing (stream or offline). */
+export function predictFilteredEpoch(d: LoadedDecoder, epoch: FilteredEpoch): EpochPrediction {
+  if (epoch?.kind !== 'filtered-epoch') throw new ParamError('epoch', `expected a FilteredEpoch (kind 'filtered-epoch'), got ${String((epoch as { kind?: unknown })?.kind)}`);
+  checkEpoch(d, epoch.data, 'epoch.data');
+  return toPrediction(d, d.decision(epoch.data));
+}
+
+/**
+ * Prediction for raw samples around a cue: filters the whole segment from a fresh steady state
+ * (as a stream starting at the segment's first sample would), then cuts and scores the epoch.
+ * Give the segment a run-in before the epoch (a second or more) so the filter has settled.
+ */
+export function predictRawEpoch(d: LoadedDecoder, segment: RawSegment): EpochPrediction {
+  if (segment?.kind !== 'raw-segment') throw new ParamError('segment', `expected a RawSegment (kind 'raw-segment'), got ${String((segment as { kind?: unknown })?.kind)}`);
+  const start = segment.cueIndex + d.epochOffset;
+  const n = segment.data[0]?.length ?? 0;
+  if (!Number.isInteger(segment.cueIndex) || start < 0 || start + d.epochLength > n) {
+    throw new ShapeError('segment.cueIndex', `epoch [${start}, ${start + d.epochLength}) does not fit in ${n} samples`);
+  }
+  const filtered = preprocessContinuous(d.preprocess, segment.data);
+  const epoch = filtered.map((ch) => ch.subarray(start, start + d.epochLength));
+  return toPrediction(d, d.decision(epoch));
+}
+
+/** A live stream bound to a decoder: DecoderStream plus one-call prediction. */
+export interface DecoderPredictionStream extends DecoderStream {
+  /** Prediction for a cue at stream sample `cueSample`, or null until its epoch is complete. */
+  predictAt(cueSample: number): EpochPrediction | null;
+}
+
+/** Creates the live pre-processing stream for a loaded decoder (online.ts). */
+export function createDecoderStream(d: LoadedDecoder, opts: StreamOptions = {}): DecoderPredictionStream {
+  const stream = createPreprocessStream(d.preprocess, d.window, opts);
+  return {
+    get samplesReceived() { return stream.samplesReceived; },
+    push: (chunk) => stream.push(chunk),
+    epochAt: (cue) => stream.epochAt(cue),
+    predictAt(cue) {
+      const e = stream.epochAt(cue);
+      return e === null ? null : predictFilteredEpoch(d, e);
+    },
+  };
+}

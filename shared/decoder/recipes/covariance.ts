@@ -1,0 +1,178 @@
+/**
+ * Recipe b, covariance: the second-order form of Tomioka & Müller 2010 (NeuroImage
+ * 49(1):415-432, §2: a trial's band-passed spatial covariance as one symmetric matrix feature of
+ * trace-norm logistic regression; the low-rank weight's eigenvectors are spatial filters).
+ *
+ * Stage 'whitened-covariance' (fit on training trials only):
+ *   C_i = (X_i − m_i)(X_i − m_i)ᵀ / T       per trial, X_i [channel][sample], m_i channel means
+ *   C̄ = mean_i C_i = V Λ Vᵀ;  P = Λ_r^(−1/2) V_rᵀ  (r×C; eigenvalues ≤ 1e-10·λ_max dropped, so
+ *       rank-deficient data such as CAR-referenced EEG work; r = C otherwise)
+ *   S_i = P C_i Pᵀ (r×r);  centre S̄ = mean_i S_i (≈ I);  scale s = RMS entry of S_i − S̄
+ *   feature F_i = (S_i − S̄)/s, one r×r block.
+ * Whitening by the training mean makes the features invariant to any invertible mixing of the
+ * channels (S_i → Q S_i Qᵀ with Q orthogonal, and the trace norm is rotation-invariant).
+ * Interpretation (Haufe et al. 2014, NeuroImage 87:96-110): for W = Σ_j μ_j u_j u_jᵀ (symmetric
+ * eigendecomposition), filter_j = Pᵀ u_j (C), pattern_j = C̄ filter_j = V_r Λ_r^(1/2) u_j.
+ */
+import { symmetricEig } from '../../linalg/symmetric-eig';
+import { ParamError, ShapeError, type Epochs } from '../../types';
+import { checkEpochs } from '../epochs';
+import {
+  decodeF64, decodeRows, encodeF64, encodeRows, expectArtifact, numberField, registerStageKind,
+  type AnyStage, type Fitted, type Stage, type StageArtifact,
+} from '../pipeline';
+import type { MatrixTrials } from './matrix-trials';
+import { traceNormCvStage, type SolverClock, type TraceNormCvParams } from './tracenorm-cv';
+
+/** What the whitened-covariance stage learned. */
+export interface FittedWhitenedCovariance extends Fitted<Epochs, MatrixTrials> {
+  readonly whitening: Float64Array[]; // [r][channel], P
+  readonly dewhitening: Float64Array[]; // [channel][r], V_r Λ_r^(1/2) (patterns = this · u)
+  readonly centre: Float64Array; // [r·r], S̄ row-major
+  readonly scale: number;
+}
+
+/** Mean-removed spatial covariance X Xᵀ / T of one trial, C×C row-major. */
+export function trialCovariance(x: Float64Array[], out?: Float64Array): Float64Array {
+  const c = x.length;
+  const t = x[0]?.length ?? 0;
+  if (t < 2) throw new ShapeError('x', `expected at least 2 samples per channel, got ${t}`);
+  const cov = out ?? new Float64Array(c * c);
+  const centred = x.map((row) => {
+    let m = 0;
+    for (let k = 0; k < t; k++) m += row[k]!;
+    m /= t;
+    return row.map((v) => v - m);
+  });
+  for (let a = 0; a < c; a++) {
+    const xa = centred[a]!;
+    for (let b = a; b < c; b++) {
+      const xb = centred[b]!;
+      let s = 0;
+      for (let k = 0; k < t; k++) s += xa[k]! * xb[k]!;
+      cov[a * c + b] = s / t;
+      cov[b * c + a] = s / t;
+    }
+  }
+  return cov;
+}
+
+/** S = P C Pᵀ for P r×C (rows) and C C×C row-major; returns r×r row-major. */
+function congruence(p: readonly Float64Array[], cov: Float64Array, c: number, out: Float64Array): Float64Array {
+  const r = p.length;
+  const pc = new Float64Array(r * c);
+  for (let i = 0; i < r; i++) {
+    const pi = p[i]!;
+    for (let b = 0; b < c; b++) {
+      let s = 0;
+      for (let a = 0; a < c; a++) s += pi[a]! * cov[a * c + b]!;
+      pc[i * c + b] = s;
+    }
+  }
+  for (let i = 0; i < r; i++) {
+    for (let j = i; j < r; j++) {
+      const pj = p[j]!;
+      let s = 0;
+      for (let b = 0; b < c; b++) s += pc[i * c + b]! * pj[b]!;
+      out[i * r + j] = s;
+      out[j * r + i] = s;
+    }
+  }
+  return out;
+}
+
+/**
+ * The feature of one trial, F = (P C Pᵀ − S̄)/s (module comment), written to out[offset ..
+ * offset + r²); `cov` (C²) and `s` (r²) are scratch buffers. The fitted stage and the frozen
+ * decoder (predict.ts) both call this, so they compute the same numbers.
+ */
+export function covarianceFeature(whitening: readonly Float64Array[], centre: Float64Array, scale: number, trial: Float64Array[],
+                                  out: Float64Array, offset: number, cov: Float64Array, s: Float64Array): void {
+  const r = whitening.length;
+  const c = trial.length;
+  congruence(whitening, trialCovariance(trial, cov), c, s);
+  for (let j = 0; j < r * r; j++) out[offset + j] = (s[j]! - centre[j]!) / scale;
+}
+
+function makeFitted(whitening: Float64Array[], dewhitening: Float64Array[], centre: Float64Array, scale: number): FittedWhitenedCovariance {
+  const r = whitening.length;
+  const c = whitening[0]?.length ?? 0;
+  const transform = (x: Epochs): MatrixTrials => {
+    checkEpochs(x, 'epochs', c);
+    const out = new Float64Array(x.length * r * r);
+    const cov = new Float64Array(c * c);
+    const s = new Float64Array(r * r);
+    x.forEach((trial, i) => covarianceFeature(whitening, centre, scale, trial, out, i * r * r, cov, s));
+    return { features: { nTrials: x.length, blocks: [{ rows: r, cols: r }], x: out }, blockWeights: Float64Array.of(1) };
+  };
+  return {
+    kind: 'whitened-covariance', whitening, dewhitening, centre, scale, transform,
+    toArtifact: () => ({ kind: 'whitened-covariance', version: 1, params: {},
+                         learned: { whitening: encodeRows(whitening), dewhitening: encodeRows(dewhitening), centre: encodeF64(centre), scale } }),
+  };
+}
+
+/** Hyperparameters of the whitened-covariance stage. */
+export type WhitenedCovarianceParams = {
+  /** Keep the leading `rank` principal directions of C̄ (null: all above 1e-10·λ_max). */
+  rank?: number | null;
+};
+
+/** Stage: whitened, centred, scaled trial covariances (module comment). */
+export function whitenedCovarianceStage(params: WhitenedCovarianceParams = {}): Stage<Epochs, MatrixTrials> {
+  const rank = params.rank ?? null;
+  if (rank !== null && !(Number.isInteger(rank) && rank >= 1)) throw new ParamError('rank', `expected an integer >= 1 or null, got ${rank}`);
+  return {
+    kind: 'whitened-covariance', params: { rank },
+    fit(x) {
+      const { trials, channels: c } = checkEpochs(x);
+      if (trials < 2) throw new ShapeError('epochs', `expected at least 2 training trials, got ${trials}`);
+      const covs = x.map((trial) => trialCovariance(trial));
+      const mean = new Float64Array(c * c);
+      for (const cv of covs) for (let j = 0; j < c * c; j++) mean[j]! += cv[j]! / trials;
+      const { values, vectors } = symmetricEig(mean, c);
+      const keep: number[] = [];
+      for (let j = 0; j < c && (rank === null || j < rank); j++) if (values[j]! > 1e-10 * values[0]!) keep.push(j);
+      if (keep.length === 0) throw new ShapeError('epochs', 'expected signals with non-zero power, got all zeros');
+      const whitening = keep.map((j) => Float64Array.from({ length: c }, (_, a) => vectors[a * c + j]! / Math.sqrt(values[j]!)));
+      const dewhitening = Array.from({ length: c }, (_, a) => Float64Array.from(keep, (j) => vectors[a * c + j]! * Math.sqrt(values[j]!)));
+      const r = keep.length;
+      const s = covs.map((cv) => congruence(whitening, cv, c, new Float64Array(r * r)));
+      const centre = new Float64Array(r * r);
+      for (const si of s) for (let j = 0; j < r * r; j++) centre[j]! += si[j]! / trials;
+      let ss = 0;
+      for (const si of s) for (let j = 0; j < r * r; j++) ss += (si[j]! - centre[j]!) ** 2;
+      const scale = Math.sqrt(ss / (trials * r * r));
+      if (!(scale > 0)) throw new ShapeError('epochs', 'expected trials whose covariances differ, got identical covariances');
+      return makeFitted(whitening, dewhitening, centre, scale);
+    },
+  };
+}
+
+/** Rebuilds the fitted stage from its artifact. */
+export function whitenedCovarianceFromArtifact(a: StageArtifact): FittedWhitenedCovariance {
+  expectArtifact(a, 'whitened-covariance', 1);
+  const whitening = decodeRows(a.learned.whitening, 'learned.whitening');
+  const centre = decodeF64(a.learned.centre, 'learned.centre');
+  if (centre.length !== whitening.length ** 2) throw new ShapeError('learned.centre', `expected ${whitening.length ** 2} values, got ${centre.length}`);
+  const scale = numberField(a.learned, 'scale', 'learned');
+  if (!(scale > 0)) throw new ParamError('learned.scale', `expected > 0, got ${scale}`);
+  return makeFitted(whitening, decodeRows(a.learned.dewhitening, 'learned.dewhitening'), centre, scale);
+}
+
+registerStageKind('whitened-covariance', whitenedCovarianceFromArtifact);
+
+/** Defaults of the covariance recipe (Tomioka & Müller 2010 second-order form; band and window as the CSP literature, Ramoser et al. 2000). */
+export const COVARIANCE_DEFAULTS = {
+  bandpassHz: [8, 30] as [number, number],
+  order: 4,
+  window: { tminS: 0.5, tmaxS: 2.5 },
+  // CAR is a rank-reducing channel map; whitening already makes the features invariant to
+  // invertible channel maps, so CAR would only remove one dimension.
+  car: false,
+};
+
+/** The covariance recipe's stages (input: filtered epochs of the recipe's window). */
+export function covarianceStages(lambda: TraceNormCvParams = {}, clock?: SolverClock): AnyStage[] {
+  return [whitenedCovarianceStage() as AnyStage, traceNormCvStage(lambda, clock) as AnyStage];
+}
