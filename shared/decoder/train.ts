@@ -31,7 +31,7 @@ import { epochRecording } from './epochs';
 import { designPreprocessing, epochSamples, preprocessRecording, type PreprocessSpec } from './online';
 import { fitPipeline, type AnyStage } from './pipeline';
 import { assembleArtifact } from './recipes/build-model';
-import { newClock, planRecipe, type RecipeName, type RecipeOptions, type TrainingClock } from './recipes';
+import { newClock, planRecipe, type RecipeName, type RecipeOptions, type RecipePlan } from './recipes';
 import { cueToCueSeconds, summariseCv, type CvSummary } from './recipes/report';
 import { standardizeStage } from './stages/standardize';
 import { describeFinalModel, type FinalModelSummary } from './recipes/summary';
@@ -91,7 +91,8 @@ export interface TrainingReport extends FinalModelSummary {
   repeatAccuracies: number[];
   lambda: { perFold: number[]; perFoldRelative: number[]; final: number; finalRelative: number };
   baselines: { cspLda: BaselineSummary; bandpowerLogreg: BaselineSummary } | null;
-  timings: { totalSeconds: number; cpuSeconds: number | null; icaSeconds: number; featureSeconds: number; solverSeconds: number;
+  /** Wall and CPU seconds; cv*: the nested cross-validation of the recipe alone (pre-processing included). */
+  timings: { totalSeconds: number; cpuSeconds: number | null; cvSeconds: number; cvCpuSeconds: number | null; icaSeconds: number; featureSeconds: number; solverSeconds: number;
              baselineSeconds: number; finalFitSeconds: number };
   settings: Record<string, unknown>;
   citation: string | null;
@@ -130,6 +131,54 @@ function recordClassifier(stages: AnyStage[], into: FittedTraceNormCv[]): AnySta
   return [...stages.slice(0, -1), wrapped];
 }
 
+/** Recordings checked, pre-processed and epoched for a recipe. */
+export interface PreparedTraining {
+  recs: readonly Recording[];
+  sampleRateHz: number;
+  channelNames: string[];
+  classes: [string, string];
+  plan: RecipePlan;
+  data: Trials;
+  counts: [number, number];
+}
+
+/** Step 1 of the module comment: checks, the recipe plan, pre-processing and epochs. */
+export function prepareTraining(recordings: Recording | readonly Recording[], opts: TrainOptions): PreparedTraining {
+  const recs = Array.isArray(recordings) ? (recordings as readonly Recording[]) : [recordings as Recording];
+  if (recs.length === 0) throw new ParamError('recordings', 'expected at least one recording');
+  const fs = recs[0]!.sampleRateHz;
+  recs.forEach((r, i) => { if (r.sampleRateHz !== fs) throw new ShapeError(`recordings[${i}].sampleRateHz`, `expected ${fs} Hz, got ${r.sampleRateHz} Hz`); });
+  const channelNames = recs[0]!.channelNames.map(normaliseChannelName);
+  const classes: [string, string] = [opts.classes[0], opts.classes[1]];
+  if (classes[0] === classes[1]) throw new ParamError('classes', `expected two different class names, got ${classes[0]} twice`);
+  const recipeOpts: RecipeOptions = { ...opts.recipeOptions, recipe: opts.recipe,
+    ...(opts.components !== undefined ? { components: opts.components } : {}), ...(opts.prior !== undefined ? { prior: opts.prior } : {}) };
+  if (opts.tminS !== undefined || opts.tmaxS !== undefined) {
+    if (opts.tminS === undefined || opts.tmaxS === undefined) throw new ParamError('tminS', 'give both tminS and tmaxS, or neither');
+    recipeOpts.window = { tminS: opts.tminS, tmaxS: opts.tmaxS };
+  }
+  const plan = planRecipe(recipeOpts, fs, channelNames);
+  const data = epochAll(recs, plan.preprocess, classes, plan.window.tminS, plan.window.tmaxS);
+  const counts: [number, number] = [0, 0];
+  data.labels.forEach((l) => { counts[l as 0 | 1]++; });
+  if (counts[0] < 2 || counts[1] < 2) throw new ShapeError('classes', `expected at least 2 trials of each class, got ${counts[0]} '${classes[0]}' and ${counts[1]} '${classes[1]}'`);
+  return { recs, sampleRateHz: fs, channelNames, classes, plan, data, counts };
+}
+
+/**
+ * The frozen decoder only (step 4 of the module comment, no cross-validation): for a quick
+ * later-run check or a re-fit. The artifact's metrics say `crossValidated: false`.
+ */
+export function fitDecoder(recordings: Recording | readonly Recording[], opts: TrainOptions): DecoderArtifact {
+  const p = prepareTraining(recordings, opts);
+  const fits: FittedTraceNormCv[] = [];
+  const fp = fitPipeline(recordClassifier(p.plan.stages(), fits), p.data.epochs, p.data.labels,
+                         { seed: deriveSeed(opts.seed ?? 0, 0x7fff), innerK: opts.inner ?? 5 });
+  return assembleArtifact(p.plan, fp as never, p.classes,
+    { trials: p.data.labels.length, trialsPerClass: p.counts, lambda: fits[0]!.model.lambda, citation: datasetCitation(opts.sourceNames ?? []) },
+    { crossValidated: false });
+}
+
 /**
  * Trains a decoder (module comment): nested cross-validation for the estimate, baselines on
  * the same folds, and the final fit on all trials.
@@ -140,27 +189,10 @@ export function trainDecoder(recordings: Recording | readonly Recording[], opts:
                              onProgress?: (p: TrainProgress) => void): { artifact: DecoderArtifact; report: TrainingReport } {
   const t0 = performance.now();
   const cpu0 = cpuSeconds();
-  const recs = Array.isArray(recordings) ? (recordings as readonly Recording[]) : [recordings as Recording];
-  if (recs.length === 0) throw new ParamError('recordings', 'expected at least one recording');
-  const fs = recs[0]!.sampleRateHz;
-  recs.forEach((r, i) => { if (r.sampleRateHz !== fs) throw new ShapeError(`recordings[${i}].sampleRateHz`, `expected ${fs} Hz, got ${r.sampleRateHz} Hz`); });
-  const channelNames = recs[0]!.channelNames.map(normaliseChannelName);
   const { folds = 10, inner = 5, repeats = 1, seed = 0 } = opts;
-  const classes: [string, string] = [opts.classes[0], opts.classes[1]];
-  if (classes[0] === classes[1]) throw new ParamError('classes', `expected two different class names, got ${classes[0]} twice`);
-  const recipeOpts: RecipeOptions = { ...opts.recipeOptions, recipe: opts.recipe,
-    ...(opts.components !== undefined ? { components: opts.components } : {}), ...(opts.prior !== undefined ? { prior: opts.prior } : {}) };
-  if (opts.tminS !== undefined || opts.tmaxS !== undefined) {
-    if (opts.tminS === undefined || opts.tmaxS === undefined) throw new ParamError('tminS', 'give both tminS and tmaxS, or neither');
-    recipeOpts.window = { tminS: opts.tminS, tmaxS: opts.tmaxS };
-  }
-  const plan = planRecipe(recipeOpts, fs, channelNames);
   onProgress?.({ phase: 'preprocess', done: 0, total: 1 });
-  const data = epochAll(recs, plan.preprocess, classes, plan.window.tminS, plan.window.tmaxS);
+  const { recs, sampleRateHz: fs, channelNames, classes, plan, data, counts } = prepareTraining(recordings, opts);
   const n = data.labels.length;
-  const counts: [number, number] = [0, 0];
-  data.labels.forEach((l) => { counts[l as 0 | 1]++; });
-  if (counts[0] < 2 || counts[1] < 2) throw new ShapeError('classes', `expected at least 2 trials of each class, got ${counts[0]} '${classes[0]}' and ${counts[1]} '${classes[1]}'`);
   if (folds > Math.min(...counts)) throw new ParamError('folds', `expected at most ${Math.min(...counts)} folds (trials of the smaller class), got ${folds}`);
   onProgress?.({ phase: 'preprocess', done: 1, total: 1 });
 
@@ -171,6 +203,8 @@ export function trainDecoder(recordings: Recording | readonly Recording[], opts:
   const repeatsFolds: FoldResult[][] = plans.map((p, r) => crossValidate(() => recordClassifier(plan.stages(clock), fitted), data.epochs, data.labels, p, {
     innerK: inner, onProgress: (done) => onProgress?.({ phase: 'cross-validation', done: r * folds + done, total: totalFits }),
   }));
+  const cvSeconds = (performance.now() - t0) / 1000;
+  const cvCpuSeconds = cpu0 === null ? null : cpuSeconds()! - cpu0;
   const secondsPerTrial = cueToCueSeconds(data.onsets, epochSamples(plan.window, fs).length / fs);
   const cv = summariseCv(repeatsFolds, data.labels, secondsPerTrial);
 
@@ -199,8 +233,8 @@ export function trainDecoder(recordings: Recording | readonly Recording[], opts:
               final: finalClf.model.lambda, finalRelative: relative(finalClf) },
     ...summary,
     baselines,
-    timings: { totalSeconds: (performance.now() - t0) / 1000, cpuSeconds: cpuSeconds() === null ? null : cpuSeconds()! - cpu0!,
-               ...clock, baselineSeconds, finalFitSeconds },
+    timings: { totalSeconds: (performance.now() - t0) / 1000, cpuSeconds: cpu0 === null ? null : cpuSeconds()! - cpu0,
+               cvSeconds, cvCpuSeconds, ...clock, baselineSeconds, finalFitSeconds },
     settings: { ...plan.settings, preprocessing: { bandpassHz: plan.preprocess.bandpass.edgesHz, order: plan.preprocess.bandpass.order,
                 notchHz: plan.preprocess.notch?.f0Hz ?? null, car: plan.preprocess.car } },
     citation: datasetCitation(opts.sourceNames ?? []),

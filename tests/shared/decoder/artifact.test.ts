@@ -2,26 +2,11 @@ import { describe, expect, it } from 'vitest';
 import {
   ArtifactIntegrityError, artifactHash, canonicalJson, parseArtifact, serialiseArtifact, verifyArtifact, type DecoderArtifact,
 } from '../../../shared/decoder/artifact';
-import { epochRecording } from '../../../shared/decoder/epochs';
-import { preprocessRecording } from '../../../shared/decoder/online';
-import { fitPipeline } from '../../../shared/decoder/pipeline';
 import { loadDecoder, predictFilteredEpoch } from '../../../shared/decoder/predict';
-import { planRecipe, type RecipeName } from '../../../shared/decoder/recipes';
-import { assembleArtifact } from '../../../shared/decoder/recipes/build-model';
 import { createRng } from '../../../shared/linalg/random';
 import { ShapeError } from '../../../shared/types';
 import { expectAllClose } from '../../helpers/all-close';
-import { syntheticRecording } from '../../fixtures/decoder/synthetic';
-
-/** Fits a recipe on the first 30 trials of a generated recording; returns pipeline, artifact and held-out epochs. */
-function fitted(recipe: RecipeName) {
-  const rec = syntheticRecording({ seed: 3, trials: 40 });
-  const plan = planRecipe({ recipe, components: recipe === 'component-tf' ? 6 : 12, lambda: { count: 5 } }, rec.sampleRateHz, rec.channelNames);
-  const e = epochRecording(preprocessRecording(plan.preprocess, rec), { classes: ['left', 'right'] }, plan.window.tminS, plan.window.tmaxS);
-  const fp = fitPipeline(plan.stages(), e.epochs.slice(0, 30), e.labels.slice(0, 30), { seed: 5, innerK: 3 });
-  const artifact = assembleArtifact(plan, fp as never, ['left', 'right'], { note: 'test' }, { accuracy: 0.5 });
-  return { fp, artifact, test: e.epochs.slice(30), onsets: e.onsetsS.slice(30), fs: rec.sampleRateHz };
-}
+import { fittedDecoder } from '../../fixtures/decoder/fitted';
 
 describe('canonicalJson', () => {
   it('sorts keys at every level and writes no whitespace', () => {
@@ -37,7 +22,7 @@ describe('canonicalJson', () => {
 });
 
 describe.each(['covariance', 'component-tf'] as const)('the %s artifact', (recipe) => {
-  const { fp, artifact, test } = fitted(recipe);
+  const { fp, artifact, test } = fittedDecoder(recipe);
 
   it('round-trips through JSON text and predicts exactly as the fitted pipeline', () => {
     const decoder = loadDecoder(JSON.parse(serialiseArtifact(artifact)) as unknown);

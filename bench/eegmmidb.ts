@@ -1,0 +1,131 @@
+/**
+ * Real-data benchmark on the EEG Motor Movement/Imagery Dataset (eegmmidb), subjects S001-S010,
+ * imagery runs R04 + R08 + R12 pooled (45 trials per subject), T1 (left fist) vs T2 (right fist).
+ * Protocol of shared/data/eegmmidb/REFERENCE-ACCURACY.md: stratified 10-fold cross-validation,
+ * 5 seeded repeats (--repeats), everything fitted inside the folds (trainDecoder), both
+ * recipes and both baselines on the same folds; plus the later-run check: fit on R04 + R08,
+ * replay R12 through the frozen decoder's live stream (predictRecording).
+ *
+ * Run: npx tsx bench/eegmmidb.ts [--subjects S001,S002] [--repeats 5] [--recipes covariance,component-tf] [--json] [--no-later]
+ *
+ * Data: Schalk et al. 2004, IEEE TBME 51(6):1034-1043; Goldberger et al. 2000, Circulation
+ * 101(23):e215-e220; PhysioNet eegmmidb v1.0.0; Open Data Commons Attribution License v1.0.
+ */
+import { readFileSync } from 'node:fs';
+import { cspStage } from '../shared/decoder/baselines/csp';
+import { shrinkageLdaStage } from '../shared/decoder/baselines/shrinkage-lda';
+import { epochRecording } from '../shared/decoder/epochs';
+import { designPreprocessing, preprocessRecording } from '../shared/decoder/online';
+import { fitPipeline, type AnyStage } from '../shared/decoder/pipeline';
+import { loadDecoder, predictRecording } from '../shared/decoder/predict';
+import type { RecipeName } from '../shared/decoder/recipes';
+import { EEGMMIDB_CITATION, fitDecoder, trainDecoder, type TrainingReport } from '../shared/decoder/train';
+import { edfToRecording, readEdf } from '../shared/formats/edf';
+import type { Recording } from '../shared/types';
+
+const DIR = new URL('../../shared/data/eegmmidb/', import.meta.url);
+
+/** REFERENCE-ACCURACY.md, per subject: CSP(6)+shrinkage LDA, log band power + L2 logistic, component-tf (NumPy), covariance (NumPy, 1 split). */
+const REFERENCE: Record<string, [number, number, number, number]> = {
+  S001: [0.667, 0.516, 0.573, 0.689], S002: [0.933, 0.689, 0.707, 0.933], S003: [0.564, 0.449, 0.480, 0.711],
+  S004: [0.622, 0.538, 0.618, 0.556], S005: [0.631, 0.462, 0.493, 0.711], S006: [0.418, 0.551, 0.480, 0.511],
+  S007: [0.969, 0.684, 0.827, 1.000], S008: [0.653, 0.564, 0.711, 0.533], S009: [0.453, 0.493, 0.476, 0.511],
+  S010: [0.636, 0.458, 0.498, 0.556],
+};
+
+function arg(name: string): string | undefined {
+  const i = process.argv.indexOf(name);
+  return i >= 0 ? process.argv[i + 1] : undefined;
+}
+
+const subjects = (arg('--subjects') ?? Object.keys(REFERENCE).join(',')).split(',');
+const repeats = Number(arg('--repeats') ?? 5);
+const recipes = (arg('--recipes') ?? 'covariance,component-tf').split(',') as RecipeName[];
+const json = process.argv.includes('--json');
+const later = !process.argv.includes('--no-later');
+
+function load(subject: string, run: string): Recording {
+  return edfToRecording(readEdf(new Uint8Array(readFileSync(new URL(`${subject}${run}.edf`, DIR)))));
+}
+
+function cpu(): number {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1e6;
+}
+
+/** CSP + shrinkage LDA fitted on the training runs, accuracy on the test run's cues (same causal 8-30 Hz epochs as the baselines). */
+function cspLaterRun(train: Recording[], test: Recording): number {
+  const spec = designPreprocessing({ sampleRateHz: test.sampleRateHz, channelNames: test.channelNames, bandpassHz: [8, 30], car: false });
+  const ep = (r: Recording) => epochRecording(preprocessRecording(spec, r), { classes: ['T1', 'T2'] }, 0.5, 2.5);
+  const tr = train.map(ep);
+  const fp = fitPipeline([cspStage({ pairs: 3 }) as AnyStage, shrinkageLdaStage() as AnyStage], tr.flatMap((e) => e.epochs),
+                         Uint8Array.from(tr.flatMap((e) => Array.from(e.labels))));
+  const te = ep(test);
+  const pred = fp.predict(te.epochs);
+  return pred.reduce((c, p, i) => c + (p === te.labels[i] ? 1 : 0), 0) / pred.length;
+}
+
+interface Row {
+  subject: string; trials: number;
+  recipes: Record<string, { accuracy: number; cvSeconds: number; cvCpuSeconds: number | null; rank: number; selected: number | null;
+                            laterRun: number | null; timings: TrainingReport['timings'] }>;
+  cspLda: number; bandpowerLogreg: number; cspLaterRun: number | null;
+}
+
+const rows: Row[] = [];
+const t0 = performance.now();
+for (const subject of subjects) {
+  const runs = ['R04', 'R08', 'R12'].map((r) => load(subject, r));
+  const sourceNames = ['R04', 'R08', 'R12'].map((r) => `${subject}${r}.edf`);
+  const row: Row = { subject, trials: 0, recipes: {}, cspLda: NaN, bandpowerLogreg: NaN, cspLaterRun: null };
+  recipes.forEach((recipe, j) => {
+    const { report } = trainDecoder(runs, { recipe, classes: ['T1', 'T2'], folds: 10, inner: 5, repeats, seed: 0, baselines: j === 0, sourceNames });
+    row.trials = report.trials;
+    if (report.baselines) { row.cspLda = report.baselines.cspLda.accuracy; row.bandpowerLogreg = report.baselines.bandpowerLogreg.accuracy; }
+    let laterRun: number | null = null;
+    if (later) {
+      const artifact = fitDecoder(runs.slice(0, 2), { recipe, classes: ['T1', 'T2'], seed: 0, sourceNames: sourceNames.slice(0, 2) });
+      laterRun = predictRecording(loadDecoder(JSON.parse(JSON.stringify(artifact)) as unknown), runs[2]!, ['T1', 'T2']).accuracy;
+    }
+    row.recipes[recipe] = { accuracy: report.nestedCvAccuracy, cvSeconds: report.timings.cvSeconds, cvCpuSeconds: report.timings.cvCpuSeconds,
+                            rank: report.rank, selected: report.selectedComponents?.length ?? null, laterRun, timings: report.timings };
+    process.stderr.write(`${subject} ${recipe}: ${report.nestedCvAccuracy.toFixed(3)} (cv ${report.timings.cvSeconds.toFixed(1)} s wall, ` +
+      `${report.timings.cvCpuSeconds?.toFixed(1)} s cpu per ${repeats} repeat(s))${laterRun === null ? '' : `, later run ${laterRun.toFixed(3)}`}\n`);
+  });
+  if (later) row.cspLaterRun = cspLaterRun(runs.slice(0, 2), runs[2]!);
+  rows.push(row);
+}
+const totalS = (performance.now() - t0) / 1000;
+const mem = { maxRssMB: process.resourceUsage().maxRSS / 1024, heapUsedMB: process.memoryUsage().heapUsed / 2 ** 20 };
+
+const mean = (f: (r: Row) => number | null | undefined) => {
+  const v = rows.map(f).filter((x): x is number => typeof x === 'number' && Number.isFinite(x));
+  return v.length ? v.reduce((a, b) => a + b, 0) / v.length : NaN;
+};
+const f3 = (x: number | null | undefined) => (typeof x === 'number' && Number.isFinite(x) ? x.toFixed(3) : '  -  ');
+if (json) {
+  process.stdout.write(`${JSON.stringify({ repeats, recipes, rows, totalSeconds: totalS, cpuSeconds: cpu(), memory: mem, citation: EEGMMIDB_CITATION }, null, 2)}\n`);
+} else {
+  const lines: string[] = [];
+  lines.push(`eegmmidb S001-S010 subset, R04+R08+R12, T1 vs T2; stratified 10-fold x ${repeats} repeat(s), inner 5-fold; ours vs REFERENCE-ACCURACY.md (ref)`);
+  lines.push('| subject | trials | CSP+LDA | ref | bandpower+LR | ref | component-tf | ref | covariance | ref (1 split) | cv s (wall/cpu) comp-tf | cv s cov |');
+  lines.push('|---|---|---|---|---|---|---|---|---|---|---|---|');
+  const secs = (r: Row, k: string) => (r.recipes[k] ? `${r.recipes[k]!.cvSeconds.toFixed(0)}/${r.recipes[k]!.cvCpuSeconds?.toFixed(0)}` : '-');
+  for (const r of rows) {
+    const ref = REFERENCE[r.subject] ?? [NaN, NaN, NaN, NaN];
+    lines.push(`| ${r.subject} | ${r.trials} | ${f3(r.cspLda)} | ${f3(ref[0])} | ${f3(r.bandpowerLogreg)} | ${f3(ref[1])} | ` +
+      `${f3(r.recipes['component-tf']?.accuracy)} | ${f3(ref[2])} | ${f3(r.recipes.covariance?.accuracy)} | ${f3(ref[3])} | ${secs(r, 'component-tf')} | ${secs(r, 'covariance')} |`);
+  }
+  const refMean = (k: number) => mean((r) => REFERENCE[r.subject]?.[k]);
+  lines.push(`| mean | | ${f3(mean((r) => r.cspLda))} | ${f3(refMean(0))} | ${f3(mean((r) => r.bandpowerLogreg))} | ${f3(refMean(1))} | ` +
+    `${f3(mean((r) => r.recipes['component-tf']?.accuracy))} | ${f3(refMean(2))} | ${f3(mean((r) => r.recipes.covariance?.accuracy))} | ${f3(refMean(3))} | | |`);
+  if (later) {
+    lines.push('', 'Later run: fit on R04+R08 (30 trials), frozen decoder replayed on R12 (15 trials) through the live stream');
+    lines.push('| subject | CSP+LDA | component-tf | covariance |', '|---|---|---|---|');
+    for (const r of rows) lines.push(`| ${r.subject} | ${f3(r.cspLaterRun)} | ${f3(r.recipes['component-tf']?.laterRun)} | ${f3(r.recipes.covariance?.laterRun)} |`);
+    lines.push(`| mean | ${f3(mean((r) => r.cspLaterRun))} | ${f3(mean((r) => r.recipes['component-tf']?.laterRun))} | ${f3(mean((r) => r.recipes.covariance?.laterRun))} |`);
+  }
+  lines.push('', `total ${totalS.toFixed(0)} s wall, ${cpu().toFixed(0)} s CPU; peak RSS ${mem.maxRssMB.toFixed(0)} MB`);
+  lines.push(`Data: ${EEGMMIDB_CITATION}`);
+  process.stdout.write(`${lines.join('\n')}\n`);
+}
