@@ -19,6 +19,7 @@ import { healthRouter } from './routes/health';
 import { participantsRouter } from './routes/participants';
 import { recordingsRouter } from './routes/recordings';
 import { rigsRouter } from './routes/rigs';
+import { sessionsRouter } from './routes/sessions';
 import { studiesRouter } from './routes/studies';
 import { usersRouter } from './routes/users';
 import type { Services } from './services';
@@ -92,6 +93,7 @@ export function buildApp(ctx: AppContext, services: Services): BuiltApp {
   api.use('/rigs', rigsRouter(services.rigs));
   api.use('/audit', auditRouter(services.audit));
   api.use('/outbox', outboxRouter(services.outbox));
+  api.use('/sessions', sessionsRouter(services.sessions));
   api.use('/studies/:studyId/participants', participantsRouter(services.participants));
   api.use('/studies/:studyId/recordings', recordingsRouter(services.recordings));
   api.use('/studies', studiesRouter(services.studies));

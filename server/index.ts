@@ -14,6 +14,8 @@ import { createLogger } from './log';
 import { createServices, type Services } from './services';
 import { createMailService, type MailService } from './services/mail';
 import { seedIfEmpty, type SeedResult } from './services/seed';
+import { markRigEmbedded } from './db/queries/pilot-sessions';
+import { attachLiveSockets } from './ws';
 import type { Express, RequestHandler } from 'express';
 
 export type { StartOptions } from './config';
@@ -87,6 +89,10 @@ export async function start(opts: StartOptions = {}): Promise<ServerHandle> {
   pruneTimer.unref();
 
   const hooks: (() => void | Promise<void>)[] = [];
+  // Live pilot sessions: WebSockets on this port; the seeded demo rig is served by the embedded bridge.
+  if (seeded) markRigEmbedded(db, seeded.rig.id, 'demo-hand-imagery');
+  const closeSockets = attachLiveSockets({ httpServer, sessionMiddleware, services, sessions: services.sessions, engine: services.live, log });
+  hooks.push(async () => { closeSockets(); await services.live.stop(); });
   let stopping: Promise<void> | null = null;
   async function stop(): Promise<void> {
     stopping ??= (async () => {

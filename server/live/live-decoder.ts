@@ -1,18 +1,20 @@
 /**
  * The frozen decoder as the live engine sees it: its pre-processing (causal Butterworth band-pass,
- * optional notch, CAR; shared/decoder/online.ts), its epoch window, and its fitted pipeline
- * split into a feature part and a classifier so each stage can be timed.
+ * optional notch, CAR; shared/decoder/online.ts), its epoch window, and its pure predict
+ * (shared/decoder/predict.ts).
  *
  * Online and offline run the same functions: the live path filters chunk by chunk with carried
- * state (`createFilter`), the offline path filters the whole stored run at once
- * (`preprocessContinuous`, fresh state, one chunk); sosfilt's per-sample arithmetic does not
- * depend on the chunking, so both give the same epochs, and `predictEpoch` maps an epoch to
- * class probabilities identically in both.
+ * state (`createFilter`: online.ts's cascade, steady-state start and in-place CAR, in the order
+ * createPreprocessStream uses; it also hands the filtered chunk to the ring, the display and the
+ * quality meter, which the decoder stream does not expose), the offline path filters the whole
+ * stored run at once (`preprocessContinuous`, fresh state, one chunk). sosfilt's per-sample
+ * arithmetic does not depend on the chunking, so both give the same epochs, and both score them
+ * with `predictFilteredEpoch`.
  */
-import { cascadeOf, epochSamples, preprocessContinuous, type EpochWindow, type PreprocessSpec } from '../../shared/decoder/online';
-import { isClassifier, type FittedPipeline } from '../../shared/decoder/pipeline';
+import { cascadeOf, preprocessContinuous, type EpochWindow, type PreprocessSpec } from '../../shared/decoder/online';
+import { predictFilteredEpoch, type LoadedDecoder } from '../../shared/decoder/predict';
 import { commonAverageReferenceInPlace, sosfiltChunk, steadyStateFor, type Sos, type SosState } from '../../shared/dsp';
-import type { ChannelMajor, Epochs } from '../../shared/types';
+import type { ChannelMajor } from '../../shared/types';
 
 /** A chunk filter with carried state: raw [channel][sample] µV in, filtered and re-referenced out. */
 export interface LiveFilter {
@@ -46,15 +48,6 @@ export interface LiveDecoder {
   predictOffline(raw: ChannelMajor, cueSamples: readonly number[]): (Float64Array | null)[];
 }
 
-/** The parts a live decoder is made of. */
-export interface LiveDecoderParts {
-  classes: readonly string[];
-  preprocess: PreprocessSpec;
-  window: EpochWindow;
-  /** Fitted on filtered epochs of `window`; its last stage is a binary classifier. */
-  pipeline: FittedPipeline<Epochs>;
-}
-
 function chunkFilter(spec: PreprocessSpec): LiveFilter {
   const sos: Sos = cascadeOf(spec);
   const channels = spec.channelNames.length;
@@ -82,40 +75,40 @@ function chunkFilter(spec: PreprocessSpec): LiveFilter {
   };
 }
 
-/** P(class 1) from a binary classifier as [P(class 0), P(class 1)]. */
-function binaryProbabilities(p1: number): Float64Array {
-  return Float64Array.of(1 - p1, p1);
-}
-
-/** Builds the live decoder from a preprocessing spec, window and fitted pipeline. */
-export function liveDecoderFromParts(parts: LiveDecoderParts): LiveDecoder {
-  const { preprocess: spec, window, pipeline } = parts;
-  if (parts.classes.length !== 2) throw new RangeError(`expected a two-class decoder, got ${parts.classes.length} classes`);
-  const stages = pipeline.stages;
-  const last = stages[stages.length - 1];
-  if (!last || !isClassifier(last)) throw new RangeError('the pipeline must end in a classifier');
-  const epoch = epochSamples(window, spec.sampleRateHz);
-  const predictEpoch = (x: ChannelMajor, onFeatures?: () => void): Float64Array => {
-    let cur: unknown = [x];
-    for (let k = 0; k < stages.length - 1; k++) cur = stages[k]!.transform(cur);
-    onFeatures?.();
-    return binaryProbabilities(last.predictProba(cur)[0]!);
+/**
+ * The live form of a loaded frozen decoder (shared/decoder/predict.ts). Prediction is
+ * `predictFilteredEpoch`, the same function offline predict calls on epochs of the whole stored
+ * run; the feature stamp is taken when the decoder's decision value (features and linear score,
+ * computed in one pass by `LoadedDecoder.decision`) is in, the predict stamp when the probability is.
+ */
+export function liveDecoderFromLoaded(d: LoadedDecoder): LiveDecoder {
+  const spec = d.preprocess;
+  const epoch = { offset: d.epochOffset, length: d.epochLength };
+  let onDecision: (() => void) | undefined;
+  // The same decoder with a stamp after its decision function (no other change).
+  const timed: LoadedDecoder = { ...d, decision: (x) => { const z = d.decision(x); onDecision?.(); return z; } };
+  const score = (data: ChannelMajor, cueSample: number, onFeatures?: () => void): Float64Array => {
+    onDecision = onFeatures;
+    const p = predictFilteredEpoch(timed, { kind: 'filtered-epoch', data, cueSample }).probability;
+    onDecision = undefined;
+    // Probabilities in class order: P(classes[0]) = 1 - P(classes[1]).
+    return Float64Array.of(1 - p, p);
   };
   return {
-    classes: [...parts.classes],
+    classes: [...d.classes],
     channelNames: [...spec.channelNames],
     sampleRateHz: spec.sampleRateHz,
-    window: { ...window },
+    window: { ...d.window },
     epoch,
     createFilter: () => chunkFilter(spec),
-    predictEpoch,
+    predictEpoch: (x, onFeatures) => score(x, 0, onFeatures),
     predictOffline(raw, cueSamples) {
       const y = preprocessContinuous(spec, raw);
       const total = y[0]?.length ?? 0;
       return cueSamples.map((c) => {
         const start = c + epoch.offset;
         if (start < 0 || start + epoch.length > total) return null;
-        return predictEpoch(y.map((ch) => ch.slice(start, start + epoch.length)));
+        return score(y.map((ch) => ch.subarray(start, start + epoch.length)), c);
       });
     },
   };

@@ -1,16 +1,23 @@
 /** All services of the app, built once per server from its context. */
 import type { AppContext } from '../context';
 import { auditService } from './audit';
+import { defaultDecoderLoader } from '../live/decoder-loader';
+import { LiveEngine } from '../live/engine';
 import { authService } from './auth';
 import { outboxService } from './outbox';
 import { participantService } from './participants';
 import { recordingService } from './recordings';
 import { rigService } from './rigs';
+import { sessionService } from './sessions';
 import { studyService } from './studies';
 import { userService } from './users';
 
 export function createServices(ctx: AppContext) {
+  // The live engine: feeds, running pilot sessions, their sockets (server/live, server/ws).
+  const live = LiveEngine.create(ctx, { loadDecoder: defaultDecoderLoader });
   return {
+    live,
+    sessions: sessionService(ctx, live),
     auth: authService(ctx),
     users: userService(ctx),
     rigs: rigService(ctx),

@@ -7,6 +7,7 @@
  */
 import type { Express } from 'express';
 import type { Role } from '../../../shared/api';
+import { SESSION_ROUTES } from './live-routes';
 
 /** 'public': anyone; 'signed-in': any role; or the exact roles allowed. */
 export type Access = 'public' | 'signed-in' | readonly Role[];
@@ -62,6 +63,7 @@ export const ROUTES: readonly RouteCase[] = [
   { method: 'POST', pattern: '/api/studies/:studyId/participants', sample: '/api/studies/1/participants', body: {}, access: RECORDING_STAFF },
   { method: 'PATCH', pattern: '/api/studies/:studyId/participants/:participantId', sample: '/api/studies/1/participants/1', body: {},
     access: RECORDING_STAFF },
+  ...SESSION_ROUTES,
 
   // Issue 6 contract: decoder:read, study:read all; decoder:import, recording:upload, training:run investigator+experimenter+admin;
   // decoder:freeze investigator+admin.

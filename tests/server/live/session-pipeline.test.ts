@@ -17,9 +17,10 @@ const CLASSES: [string, string] = ['left-hand', 'right-hand'];
 
 let decoder: LiveDecoder;
 beforeAll(() => {
-  const { recording } = simulateRecording({ ...PROFILE, trialsPerClass: 15 }, { seed: 11 });
-  decoder = trainDecoder(recording, { classes: CLASSES, window: { tminS: 0.5, tmaxS: 2.5 }, recipe: 'csp-lda', car: true, notchHz: 50 });
-});
+  // Covariance recipe (Tomioka & Müller 2010) through the decoder library's own fit and seal.
+  const { recording } = simulateRecording({ ...PROFILE, trialsPerClass: 10 }, { seed: 11 });
+  decoder = trainDecoder(recording, { classes: CLASSES, window: { tminS: 0.5, tmaxS: 2.5 }, car: true, notchHz: 50 });
+}, 60_000);
 
 /** Items of `seconds` of a simulated session (its own seed), as a bridge would send them. */
 function sessionItems(seconds: number, seed: number, maxChunk: number, profile = PROFILE): { items: FeedItem[]; channels: string[] } {
@@ -93,6 +94,25 @@ function offlineProbabilities(items: FeedItem[], channels: string[], startSample
 }
 
 describe('the session pipeline', () => {
+  it('runs the component-tf recipe live through the same predict as offline', () => {
+    const { recording } = simulateRecording({ ...PROFILE, trialsPerClass: 10 }, { seed: 15 });
+    const tf = trainDecoder(recording, { classes: CLASSES, window: { tminS: -0.5, tmaxS: 4 }, recipe: 'component-tf', components: 6,
+      bandpassHz: [1, 40], car: true, notchHz: 50 });
+    const saved = decoder;
+    decoder = tf;
+    try {
+      const { items, channels } = sessionItems(40, 41, 25);
+      const { sink } = runOnline(items, channels, 0);
+      // Demo profile: cues every 6.5-8 s after 3 s; a -0.5..4 s window gives 4 or more whole epochs in 40 s.
+      expect(sink.trials.length).toBeGreaterThanOrEqual(4);
+      const offline = offlineProbabilities(items, channels, 0, sink.trials.map((t) => t.cueSample));
+      // Issue 6: both recipes run live through the same predict; online equals offline to 1e-9.
+      sink.trials.forEach((t, i) => expectAllClose(t.probabilities, offline[i]!, { atol: 1e-9, rtol: 0 }));
+    } finally {
+      decoder = saved;
+    }
+  }, 60_000);
+
   it('gives every cue the same probabilities as offline predict on the whole run, for irregular chunks', () => {
     const { items, channels } = sessionItems(70, 23, 37);
     const { sink } = runOnline(items, channels, 0);

@@ -13,9 +13,9 @@ let fx: LiveFixture;
 let trained: TrainedDecoder;
 beforeAll(async () => {
   fx = await startLive();
-  const { recording } = simulateRecording({ ...PROFILE, trialsPerClass: 15 }, { seed: 14 });
+  const { recording } = simulateRecording({ ...PROFILE, trialsPerClass: 10 }, { seed: 14 });
   trained = trainDecoderWithArtifact(recording, { classes: ['left-hand', 'right-hand'], window: { tminS: 0.5, tmaxS: 2.5 },
-    recipe: 'csp-lda', car: true, notchHz: 50 });
+    car: true, notchHz: 50 });
 }, 60_000);
 afterAll(async () => { await fx.cleanup(); });
 

@@ -22,9 +22,9 @@ let decoderId: number;
 
 beforeAll(async () => {
   fx = await startLive();
-  const { recording } = simulateRecording({ ...PROFILE, trialsPerClass: 15 }, { seed: 11 });
+  const { recording } = simulateRecording({ ...PROFILE, trialsPerClass: 10 }, { seed: 11 });
   trained = trainDecoderWithArtifact(recording, { classes: ['left-hand', 'right-hand'], window: { tminS: 0.5, tmaxS: 2.5 },
-    recipe: 'csp-lda', car: true, notchHz: 50 });
+    car: true, notchHz: 50 });
   decoderId = insertFrozenDecoder(fx.h, demoStudy(fx.h).studyId, trained);
 }, 60_000);
 afterAll(async () => { await fx.cleanup(); });

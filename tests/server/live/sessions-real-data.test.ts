@@ -31,7 +31,7 @@ describe.skipIf(skipWithoutRealData)('a pilot session replaying a real eegmmidb 
     fx = await startLive();
     const calibration = concat(load('S001R04.edf'), load('S001R08.edf'));
     channels = calibration.channelNames;
-    trained = trainDecoderWithArtifact(calibration, { classes: ['T1', 'T2'], window: { tminS: 0.5, tmaxS: 2.5 }, recipe: 'csp-lda',
+    trained = trainDecoderWithArtifact(calibration, { classes: ['T1', 'T2'], window: { tminS: 0.5, tmaxS: 2.5 },
       notchHz: 60 });
   }, 60_000);
   afterAll(async () => { await fx?.cleanup(); });

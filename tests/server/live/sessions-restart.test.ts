@@ -30,7 +30,7 @@ describe('a server restart in the middle of a feed', () => {
     let fx: LiveFixture = await startLive(dataDir);
     const { recording } = simulateRecording({ ...PROFILE, trialsPerClass: 10 }, { seed: 13 });
     const trained = trainDecoderWithArtifact(recording, { classes: ['left-hand', 'right-hand'], window: { tminS: 0.5, tmaxS: 2.5 },
-      recipe: 'csp-lda' });
+      });
     const decoderId = insertFrozenDecoder(fx.h, demoStudy(fx.h).studyId, trained);
     const rig = await newRig(fx.admin, 'Restart rig');
     const { hello, items } = feed(40);

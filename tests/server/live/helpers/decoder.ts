@@ -1,16 +1,14 @@
 /**
- * A frozen-decoder stand-in for the live tests: the decoder library's own pieces (pre-processing
- * spec, epoching, a fitted pipeline) trained on a recording. Recipe 'covariance' is the
- * trace-norm covariance recipe (Tomioka & Müller 2010); 'csp-lda' the CSP + shrinkage LDA
- * baseline (Ramoser et al. 2000; Ledoit & Wolf 2004), quicker to fit.
+ * A frozen decoder for the live tests, made by the decoder library itself: `fitDecoder`
+ * (shared/decoder/train.ts, no cross-validation) seals the artifact; `loadDecoder` verifies it.
+ * Recipe: covariance (Tomioka & Müller 2010) unless a test asks for component-tf.
  */
-import { cspLdaRecipe } from '../../../../shared/decoder/baselines';
-import { epochRecording } from '../../../../shared/decoder/epochs';
-import { designPreprocessing, preprocessRecording, type EpochWindow } from '../../../../shared/decoder/online';
-import { fitPipeline } from '../../../../shared/decoder/pipeline';
-import { covarianceStages } from '../../../../shared/decoder/recipes/covariance';
+import { serialiseArtifact, type DecoderArtifact } from '../../../../shared/decoder/artifact';
+import type { EpochWindow } from '../../../../shared/decoder/online';
+import * as train from '../../../../shared/decoder/train';
 import type { Recording } from '../../../../shared/types';
-import { liveDecoderFromParts, type LiveDecoder } from '../../../../server/live/live-decoder';
+import { liveDecoderFromArtifact } from '../../../../server/live/decoder-loader';
+import type { LiveDecoder } from '../../../../server/live/live-decoder';
 
 export interface TrainOptions {
   classes: [string, string];
@@ -18,31 +16,33 @@ export interface TrainOptions {
   bandpassHz?: [number, number];
   notchHz?: number | null;
   car?: boolean;
-  recipe?: 'covariance' | 'csp-lda';
-  channelNames?: string[];
+  recipe?: 'covariance' | 'component-tf';
+  /** Covariance rank or ICA components. */
+  components?: number;
 }
 
-/** A trained decoder: its live form and its artifact (the layout server/live/decoder-loader.ts reads). */
+/** A trained, sealed decoder: its artifact, the artifact's text as stored, and its live form. */
 export interface TrainedDecoder {
   live: LiveDecoder;
-  artifact: { classes: string[]; preprocess: ReturnType<typeof designPreprocessing>; window: EpochWindow; pipeline: unknown };
+  artifact: DecoderArtifact;
+  text: string;
 }
 
-export function trainDecoder(rec: Recording, o: TrainOptions): LiveDecoder {
-  return trainDecoderWithArtifact(rec, o).live;
-}
+type Fit = (rec: Recording | readonly Recording[], opts: train.TrainOptions) => DecoderArtifact;
 
-export function trainDecoderWithArtifact(rec: Recording, o: TrainOptions): TrainedDecoder {
-  const spec = designPreprocessing({
-    sampleRateHz: rec.sampleRateHz, channelNames: o.channelNames ?? rec.channelNames, bandpassHz: o.bandpassHz ?? [8, 30],
-    notchHz: o.notchHz ?? null, car: o.car ?? false,
-  });
-  const filtered = preprocessRecording(spec, rec);
-  const { epochs, labels } = epochRecording(filtered, { classes: o.classes }, o.window.tminS, o.window.tmaxS);
-  const stages = (o.recipe ?? 'covariance') === 'covariance' ? covarianceStages({ count: 6 }) : cspLdaRecipe(3);
-  const pipeline = fitPipeline(stages, epochs, labels, { seed: 1, innerK: 3 });
-  return {
-    live: liveDecoderFromParts({ classes: o.classes, preprocess: spec, window: o.window, pipeline }),
-    artifact: { classes: [...o.classes], preprocess: spec, window: o.window, pipeline: pipeline.toArtifact() },
+export function trainDecoderWithArtifact(rec: Recording | Recording[], o: TrainOptions): TrainedDecoder {
+  const opts: train.TrainOptions = {
+    recipe: o.recipe ?? 'covariance', classes: o.classes, tminS: o.window.tminS, tmaxS: o.window.tmaxS, inner: 3, seed: 1,
+    ...(o.components !== undefined ? { components: o.components } : {}),
+    recipeOptions: { bandpassHz: o.bandpassHz ?? [8, 30], notchHz: o.notchHz ?? null, car: o.car ?? false, lambda: { count: 4 } },
   };
+  // The final fit alone when the library offers it (fitDecoder); else the full training with the fewest folds.
+  const fit = (train as unknown as { fitDecoder?: Fit }).fitDecoder;
+  const artifact = fit ? fit(rec, opts) : train.trainDecoder(rec, { ...opts, folds: 2, baselines: false }).artifact;
+  const text = serialiseArtifact(artifact);
+  return { artifact, text, live: liveDecoderFromArtifact(JSON.parse(text) as unknown) };
+}
+
+export function trainDecoder(rec: Recording | Recording[], o: TrainOptions): LiveDecoder {
+  return trainDecoderWithArtifact(rec, o).live;
 }

@@ -3,7 +3,6 @@
  * in its worker thread on a SQLite file), a rig with its key, a frozen decoder row, and helpers
  * to read what the session stored.
  */
-import { createHash } from 'node:crypto';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -35,17 +34,17 @@ export async function newRig(admin: Client, name: string): Promise<{ id: number;
   return { id: res.body.rig.id as number, key: res.body.rigKey as string };
 }
 
-/** Inserts a frozen (or draft) decoder of `studyId` whose artifact is `d.artifact` (JSON). */
+/** Inserts a frozen (or draft) decoder of `studyId` whose sealed artifact is `d` (as an import would store it). */
 export function insertFrozenDecoder(h: ServerHandle, studyId: number, d: TrainedDecoder, name = 'Test decoder',
                                     status: 'frozen' | 'draft' = 'frozen'): number {
-  const text = JSON.stringify(d.artifact);
-  const sha = createHash('sha256').update(text).digest('hex');
+  const { text } = d;
+  const a = d.artifact;
+  const sha = a.sha256;
   const now = Date.now();
   const r = h.db.sqlite.prepare(`INSERT INTO decoders (study_id, name, recipe, classes, channel_names, sample_rate_hz, epoch_start_s,
-    epoch_end_s, artifact, sha256, status, metrics, source, created_at, frozen_at) VALUES (?, ?, 'covariance', ?, ?, ?, ?, ?, ?, ?, ?,
-    '{}', 'import', ?, ?)`).run(studyId, name, JSON.stringify(d.artifact.classes), JSON.stringify(d.artifact.preprocess.channelNames),
-    d.artifact.preprocess.sampleRateHz, d.artifact.window.tminS, d.artifact.window.tmaxS, text, sha, status, now,
-    status === 'frozen' ? now : null);
+    epoch_end_s, artifact, sha256, status, metrics, source, created_at, frozen_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?,
+    '{}', 'import', ?, ?)`).run(studyId, name, a.recipe, JSON.stringify(a.classes), JSON.stringify(a.channelNames), a.sampleRateHz,
+    a.epoch.tminS, a.epoch.tmaxS, text, sha, status, now, status === 'frozen' ? now : null);
   return Number(r.lastInsertRowid);
 }
 
