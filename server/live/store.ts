@@ -73,7 +73,10 @@ export class LiveStore {
     const api = pathToFileURL(createRequire(import.meta.url).resolve('tsx/esm/api').replace(/\.cjs$/, '.mjs')).href;
     const entry = new URL('./store-worker.ts', import.meta.url).href;
     const code = `import(${JSON.stringify(api)}).then((m) => (m.tsImport ?? m.default.tsImport)(${JSON.stringify(entry)}, ${JSON.stringify(entry)}))`;
-    return new LiveStore(new Worker(code, { eval: true, workerData: { dbFile } satisfies StoreWorkerData }), null);
+    const worker = new Worker(code, { eval: true, workerData: { dbFile } satisfies StoreWorkerData });
+    // Never keeps the process alive by itself (a start() that failed after creating it must still exit).
+    worker.unref();
+    return new LiveStore(worker, null);
   }
 
   /** Resolves once the store can write (the worker opened the database), or rejects if it failed to. */

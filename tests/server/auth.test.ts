@@ -39,10 +39,12 @@ describe('sign-in, sign-out and the signed-in user', () => {
     const first = await c.agent.get('/api/auth/csrf');
     const before = sessionCookie(first.headers['set-cookie']);
     const res = await c.post('/api/auth/login', { email: '  Investigator@Aftercue.TEST ', password: DEMO_PASSWORD });
-    // API contract (shared/api/auth.ts Me); permissions per the foundation issue for investigator.
+    // API contract (shared/api/auth.ts Me); permissions per the foundation issue for investigator, plus the
+    // issue 6 contract's decoder, session, training and recording permissions.
     expect(res.body).toMatchObject({ email: EMAILS.investigator, role: 'investigator', displayName: 'Demo Investigator' });
     expect(res.body.permissions).toEqual(['study:read', 'study:create', 'study:edit', 'study:archive',
-      'participant:create', 'participant:edit', 'rig:read']);
+      'participant:create', 'participant:edit', 'rig:read', 'decoder:read', 'decoder:import', 'decoder:freeze', 'session:read',
+      'session:run', 'training:run', 'recording:upload']);
     const after = sessionCookie(res.headers['set-cookie']);
     // OWASP Session Management cheat sheet: a new session id at sign-in (no fixation).
     expect(after).toBeDefined();
