@@ -27,7 +27,7 @@
  *   (weights and bias together), returning the better of the two; otherwise stop at maxIter
  *   with converged = false.
  */
-import { svd } from '../linalg/svd';
+import { createSvdWorkspace, svd } from '../linalg/svd';
 import { ParamError } from '../types';
 import { type BlockLayout, type MatrixFeatures, logisticBregman, logisticLoss, margins } from './tracenorm-data';
 import { spectralNormUpperBound, svtInto } from './tracenorm-prox';
@@ -78,7 +78,8 @@ export function runFista(features: MatrixFeatures, labels: Uint8Array, layout: B
   const nb = blocks.length;
   const { lambda, alpha, tol, blockWeights } = s;
   const work = new Float64Array(2 * blocks.reduce((m, bl) => Math.max(m, Math.min(bl.rows, bl.cols) ** 2), 0));
-  const warm: (Float64Array | null)[] = new Array<Float64Array | null>(nb).fill(null);
+  const svdWork = blocks.map((bl) => createSvdWorkspace(bl.rows, bl.cols));
+  const warm = new Uint8Array(nb); // 1 once a block's workspace holds a rotation to start from
   const counters = { svd: 0, skippedSvd: 0, skippedGradient: 0, prox: 0 };
 
   // Screening state: ‖X_k‖_F, and per block the last proved bound B_k at residuals r_k.
@@ -242,12 +243,14 @@ export function runFista(features: MatrixFeatures, labels: Uint8Array, layout: B
         continue;
       }
       counters.svd++;
-      const r = svtInto(v, o, rows, cols, (lambda * blockWeights[k]!) / step, zc.w, o, warm[k] ?? null);
-      warm[k] = r.rotation;
-      zc.rank[k] = r.rank;
-      zc.act[k] = r.rank > 0 ? 1 : 0;
+      const tau = (lambda * blockWeights[k]!) / step;
+      const ws = svdWork[k]!;
+      const rank = svtInto(v, o, tau, zc.w, o, ws, warm[k] === 1);
+      warm[k] = 1;
+      zc.rank[k] = rank;
+      zc.act[k] = rank > 0 ? 1 : 0;
       let nuc = 0;
-      for (let j = 0; j < r.rank; j++) nuc += r.shrunk[j]!;
+      for (let j = 0; j < rank; j++) nuc += ws.s[j]! - tau;
       zc.nuc[k] = nuc;
     }
   }

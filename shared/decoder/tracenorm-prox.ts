@@ -3,7 +3,7 @@
  * prox_{τ‖·‖_*}(V) = U diag(max(σ_i − τ, 0)) Vᵀ (Cai, Candès & Shen 2010, SIAM J. Optim.
  * 20(4):1956–1982, Theorem 2.1), plus the certificate that lets a zero block skip its SVD.
  */
-import { svd } from '../linalg/svd';
+import { type SvdWorkspace, createSvdWorkspace, svdInto } from '../linalg/svd';
 import { ParamError, ShapeError } from '../types';
 
 /** Result of singular value soft-thresholding. */
@@ -25,44 +25,37 @@ export interface SvtResult {
 export function svt(m: Float64Array, rows: number, cols: number, tau: number): SvtResult {
   if (m.length !== rows * cols) throw new ShapeError('m', `expected ${rows}×${cols} = ${rows * cols} values, got ${m.length}`);
   if (!(tau >= 0) || !Number.isFinite(tau)) throw new ParamError('tau', `expected a finite threshold ≥ 0, got ${tau}`);
+  m.forEach((x, i) => {
+    if (!Number.isFinite(x)) throw new ParamError('m', `entry ${i} is ${x}`);
+  });
   const out = new Float64Array(rows * cols);
-  const r = svtInto(m, 0, rows, cols, tau, out, 0, null);
-  return { out, rank: r.rank, singularValues: r.shrunk };
-}
-
-/** Internal result of {@link svtInto}. */
-export interface SvtInto {
-  rank: number;
-  /** max(σ − τ, 0), descending. */
-  shrunk: Float64Array;
-  /** The SVD's rotation, for warm-starting the next SVD of this block. */
-  rotation: Float64Array;
+  const ws = createSvdWorkspace(rows, cols);
+  const rank = svtInto(m, 0, tau, out, 0, ws, false);
+  const singularValues = ws.s.map((x) => Math.max(x - tau, 0));
+  return { out, rank, singularValues };
 }
 
 /**
- * SVT of the block m[src .. src + rows*cols) written to dst[dstOff ..]; `warm` is the
- * rotation of a previous SVD of the same block (speed only).
+ * SVT of the block m[src .. src + rows*cols) (shape from the workspace) written to
+ * dst[dstOff ..]. Afterwards ws.s holds the input's singular values, descending; the result's
+ * are max(ws.s − τ, 0). With `warm`, the SVD starts from ws.rotation (left by the previous SVD
+ * of this block), which only changes the speed.
+ * @returns the rank of the result
  */
-export function svtInto(m: Float64Array, src: number, rows: number, cols: number, tau: number,
-                        dst: Float64Array, dstOff: number, warm: Float64Array | null): SvtInto {
-  const size = rows * cols;
-  const block = m.subarray(src, src + size);
-  const d = svd(block, rows, cols, warm ? { warmStart: warm } : {});
-  const k = d.k;
-  const shrunk = new Float64Array(k);
+export function svtInto(m: Float64Array, src: number, tau: number, dst: Float64Array, dstOff: number,
+                        ws: SvdWorkspace, warm: boolean): number {
+  svdInto(m, src, ws, warm ? ws.rotation : null);
+  const { rows, cols, k, u, s, v } = ws;
   let rank = 0;
-  for (let j = 0; j < k; j++) {
-    const v = d.s[j]! - tau;
-    if (v > 0) { shrunk[j] = v; rank++; }
-  }
+  while (rank < k && s[rank]! > tau) rank++;
   for (let i = 0; i < rows; i++) {
     for (let c = 0; c < cols; c++) {
       let acc = 0;
-      for (let j = 0; j < rank; j++) acc += d.u[i * k + j]! * shrunk[j]! * d.v[c * k + j]!;
+      for (let j = 0; j < rank; j++) acc += u[i * k + j]! * (s[j]! - tau) * v[c * k + j]!;
       dst[dstOff + i * cols + c] = acc;
     }
   }
-  return { rank, shrunk, rotation: d.rotation };
+  return rank;
 }
 
 /**

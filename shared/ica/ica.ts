@@ -35,7 +35,7 @@ export interface IcaParams {
   maxIter?: number;
   /**
    * Stopping tolerance: relative change of the epoch-averaged W between epochs (Infomax,
-   * default 1e-3) or max_i | |⟨w_i⁺, w_i⟩| − 1 | (FastICA, default 1e-7).
+   * default 1e-3) or max_i | |⟨w_i⁺, w_i⟩| − 1 | (FastICA, default 1e-6).
    */
   tol?: number;
   /** Infomax initial learning rate on the block-mean natural gradient (default 0.2). */
@@ -64,7 +64,7 @@ export function fitIca(x: ChannelMajor, params: IcaParams): FittedIca {
     throw new ParamError('method', `expected 'extended-infomax' or 'fastica', got ${String(method)}`);
   }
   const maxIter = params.maxIter ?? (method === 'fastica' ? 400 : 200);
-  const tol = params.tol ?? (method === 'fastica' ? 1e-7 : 1e-3);
+  const tol = params.tol ?? (method === 'fastica' ? 1e-6 : 1e-3);
   const learningRate = params.learningRate ?? 0.2;
   if (!Number.isInteger(maxIter) || maxIter < 1) throw new ParamError('maxIter', `expected an integer ≥ 1, got ${maxIter}`);
   if (!(tol > 0)) throw new ParamError('tol', `expected a value > 0, got ${tol}`);
