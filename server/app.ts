@@ -15,12 +15,14 @@ import { securityHeaders } from './http/security';
 import { SqliteSessionStore } from './http/session-store';
 import { auditRouter, outboxRouter } from './routes/admin';
 import { authRouter } from './routes/auth';
+import { decoderImportBodyParser, decodersRouter, studyDecodersRouter } from './routes/decoders';
 import { healthRouter } from './routes/health';
 import { participantsRouter } from './routes/participants';
 import { recordingsRouter } from './routes/recordings';
 import { rigsRouter } from './routes/rigs';
 import { sessionsRouter } from './routes/sessions';
 import { studiesRouter } from './routes/studies';
+import { studyTrainingJobsRouter, trainingJobsRouter } from './routes/training-jobs';
 import { usersRouter } from './routes/users';
 import type { Services } from './services';
 
@@ -84,6 +86,7 @@ export function buildApp(ctx: AppContext, services: Services): BuiltApp {
   api.use((_req, res, next) => { res.setHeader('Cache-Control', 'no-store'); next(); });
   api.use(sessionMiddleware);
   api.use(requireCsrfToken);
+  api.use(decoderImportBodyParser); // 20 MB for POST /studies/:studyId/decoders only
   api.use(express.json({ limit: JSON_BODY_LIMIT }));
   api.use(passport.initialize());
   api.use(passport.session());
@@ -96,6 +99,10 @@ export function buildApp(ctx: AppContext, services: Services): BuiltApp {
   api.use('/sessions', sessionsRouter(services.sessions));
   api.use('/studies/:studyId/participants', participantsRouter(services.participants));
   api.use('/studies/:studyId/recordings', recordingsRouter(services.recordings));
+  api.use('/studies/:studyId/decoders', studyDecodersRouter(services.decoders));
+  api.use('/studies/:studyId/training-jobs', studyTrainingJobsRouter(services.trainingJobs));
+  api.use('/decoders', decodersRouter(services.decoders));
+  api.use('/training-jobs', trainingJobsRouter(services.trainingJobs));
   api.use('/studies', studiesRouter(services.studies));
   api.use(apiNotFound);
   app.use('/api', api);

@@ -35,10 +35,21 @@ export interface StartOptions {
   loginRateLimit?: { max: number; windowMs: number };
   /** Folder of the built client; default dist/client (served only when it exists). */
   clientDir?: string;
-  /** On first start, also train and freeze the demo study's decoder in the background. Default true. */
-  demoDecoder?: boolean;
+  /**
+   * On first start, also train and freeze the demo study's decoder in the background. Default
+   * true; an object sizes the demo run instead (tests make it small).
+   */
+  demoDecoder?: boolean | DemoDecoderSize;
   /** Training jobs run at once, each in its own worker thread. Default 1. */
   trainingConcurrency?: number;
+}
+
+/** Size of the demo decoder's calibration run and cross-validation (defaults in server/workers/demo.ts). */
+export interface DemoDecoderSize {
+  trialsPerClass?: number;
+  folds?: number;
+  inner?: number;
+  components?: number;
 }
 
 export interface Config {
@@ -60,7 +71,8 @@ export interface Config {
   loginRateLimit: { max: number; windowMs: number };
   clientDir: string;
   sessionSecret: string;
-  demoDecoder: boolean;
+  /** false, or the demo run's size overrides ({} for the defaults). */
+  demoDecoder: false | DemoDecoderSize;
   trainingConcurrency: number;
 }
 
@@ -113,6 +125,10 @@ export function resolveConfig(opts: StartOptions): Config {
   const limit = opts.loginRateLimit ?? { max: 10, windowMs: 15 * 60_000 };
   check(isInt(limit.max, 1, 1_000_000) && isInt(limit.windowMs, 1000, 86_400_000), 'loginRateLimit',
     'needs max 1..1e6 and windowMs 1000..86400000');
+  const demo = opts.demoDecoder ?? true;
+  if (typeof demo === 'object') {
+    for (const [k, v] of Object.entries(demo)) check(isInt(v, 1, 1000), `demoDecoder.${k}`, `must be an integer 1..1000, got '${String(v)}'`);
+  }
   const trainingConcurrency = opts.trainingConcurrency ?? 1;
   check(isInt(trainingConcurrency, 1, 16), 'trainingConcurrency', `must be an integer 1..16, got '${String(opts.trainingConcurrency)}'`);
 
@@ -137,7 +153,7 @@ export function resolveConfig(opts: StartOptions): Config {
     loginRateLimit: limit,
     clientDir: resolve(opts.clientDir ?? fileURLToPath(new URL('../dist/client', import.meta.url))),
     sessionSecret: sessionSecretFor(dataDir),
-    demoDecoder: opts.demoDecoder ?? true,
+    demoDecoder: demo === true ? {} : demo,
     trainingConcurrency,
   };
 }

@@ -14,6 +14,7 @@ import { createLogger } from './log';
 import { createServices, type Services } from './services';
 import { createMailService, type MailService } from './services/mail';
 import { seedIfEmpty, type SeedResult } from './services/seed';
+import { DEMO_DECODER_NAME, demoDecoderParams } from './workers/demo';
 import { markRigEmbedded } from './db/queries/pilot-sessions';
 import { attachLiveSockets } from './ws';
 import type { Express, RequestHandler } from 'express';
@@ -89,6 +90,13 @@ export async function start(opts: StartOptions = {}): Promise<ServerHandle> {
   pruneTimer.unref();
 
   const hooks: (() => void | Promise<void>)[] = [];
+  // Training jobs run in worker threads; on first start the demo study's decoder is trained and frozen in the background.
+  if (seeded && config.demoDecoder) {
+    services.trainingJobs.queueDemo(seeded.studyId, DEMO_DECODER_NAME, demoDecoderParams(config.demoDecoder));
+    log.info('Demo decoder: training in the background; a line follows when it is frozen.');
+  }
+  services.trainingJobs.start();
+  hooks.push(() => services.trainingJobs.stop());
   // Live pilot sessions: WebSockets on this port; the seeded demo rig is served by the embedded bridge.
   if (seeded) markRigEmbedded(db, seeded.rig.id, 'demo-hand-imagery');
   const closeSockets = attachLiveSockets({ httpServer, sessionMiddleware, services, sessions: services.sessions, engine: services.live, log });

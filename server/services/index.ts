@@ -1,6 +1,7 @@
 /** All services of the app, built once per server from its context. */
 import type { AppContext } from '../context';
 import { auditService } from './audit';
+import { decoderService } from './decoders';
 import { defaultDecoderLoader } from '../live/decoder-loader';
 import { LiveEngine } from '../live/engine';
 import { authService } from './auth';
@@ -10,6 +11,7 @@ import { recordingService } from './recordings';
 import { rigService } from './rigs';
 import { sessionService } from './sessions';
 import { studyService } from './studies';
+import { trainingJobService } from './training-jobs';
 import { userService } from './users';
 
 export function createServices(ctx: AppContext) {
@@ -26,6 +28,8 @@ export function createServices(ctx: AppContext) {
     studies: studyService(ctx),
     participants: participantService(ctx),
     recordings: recordingService(ctx),
+    decoders: decoderService(ctx),
+    trainingJobs: trainingJobService(ctx, { concurrency: ctx.config.trainingConcurrency }),
   };
 }
 export type Services = ReturnType<typeof createServices>;

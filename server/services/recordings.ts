@@ -107,7 +107,7 @@ export function loadTrainingInput(db: Db, id: number): TrainingRecordingInput {
   if (!meta) throw notFound('Recording');
   const annotations = listRecordingCues(db, id).map((c) => ({ onsetS: c.onsetS, durationS: c.durationS, text: c.label }));
   const bytes = recordingFileBytes(db, id);
-  if (bytes) return { id, kind: 'file', bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength), annotations };
+  if (bytes) return { id, name: meta.name, kind: 'file', bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength), annotations };
   const channels = meta.channelNames.length;
   const data = meta.channelNames.map(() => new Float64Array(meta.sampleCount));
   for (const chunk of listRecordingChunks(db, id)) {
@@ -115,7 +115,7 @@ export function loadTrainingInput(db: Db, id: number): TrainingRecordingInput {
     if (block.length !== channels * chunk.sampleCount) throw new ShapeError('recording_chunks.data', `chunk at ${chunk.firstSample} has the wrong size`);
     for (let c = 0; c < channels; c++) data[c]!.set(block.subarray(c * chunk.sampleCount, (c + 1) * chunk.sampleCount), chunk.firstSample);
   }
-  return { id, kind: 'samples', channelNames: meta.channelNames, sampleRateHz: meta.sampleRateHz, data, annotations };
+  return { id, name: meta.name, kind: 'samples', channelNames: meta.channelNames, sampleRateHz: meta.sampleRateHz, data, annotations };
 }
 
 export function recordingService(ctx: AppContext) {

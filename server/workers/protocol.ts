@@ -8,8 +8,8 @@ import type { Annotation, ChannelMajor } from '../../shared/types';
 
 /** One stored recording as the worker receives it: its file bytes, or its samples. Cues from the cue table. */
 export type TrainingRecordingInput =
-  | { id: number; kind: 'file'; bytes: Uint8Array; annotations: Annotation[] }
-  | { id: number; kind: 'samples'; channelNames: string[]; sampleRateHz: number; data: ChannelMajor; annotations: Annotation[] };
+  | { id: number; name: string; kind: 'file'; bytes: Uint8Array; annotations: Annotation[] }
+  | { id: number; name: string; kind: 'samples'; channelNames: string[]; sampleRateHz: number; data: ChannelMajor; annotations: Annotation[] };
 
 /** What to fit: the study's protocol plus the job's choices. */
 export interface TrainOptions {
@@ -34,7 +34,7 @@ export interface TrainOptions {
 export type TrainTask =
   | { kind: 'train'; recordings: TrainingRecordingInput[]; options: TrainOptions }
   /** Simulate a calibration recording from a simulator profile (seeded), send it back as EDF+C, train on it. */
-  | { kind: 'simulate-and-train'; profile: unknown; simulationSeed: number; seconds?: number; options: TrainOptions };
+  | { kind: 'simulate-and-train'; profile: unknown; simulationSeed: number; options: TrainOptions };
 
 /** Headline facts of a sealed artifact, for the decoders table. */
 export interface ArtifactFacts {

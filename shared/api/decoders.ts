@@ -110,8 +110,14 @@ export type ComponentInterpretation = z.infer<typeof componentInterpretationSche
 /** One discriminative spatial pattern of a covariance decoder. */
 export const spatialPatternSchema = z.object({
   channelNames: z.array(z.string()),
+  /** The pattern (Haufe et al. 2014): how the source shows on the scalp. */
   values: z.array(z.number()),
+  /** Eigenvalue of the symmetric weight: > 0 means more power along the filter favours classes[1]. */
   eigenvalue: z.number(),
+  /** The spatial filter the decoder applies (not for reading as a map). */
+  filter: z.array(z.number()).optional(),
+  /** The class more power along this direction favours. */
+  favours: z.string().optional(),
 });
 export type SpatialPattern = z.infer<typeof spatialPatternSchema>;
 

@@ -69,6 +69,15 @@ export const ROUTES: readonly RouteCase[] = [
   // decoder:freeze investigator+admin.
   { method: 'GET', pattern: '/api/studies/:studyId/recordings', sample: '/api/studies/1/recordings', access: ALL },
   { method: 'POST', pattern: '/api/studies/:studyId/recordings', sample: '/api/studies/1/recordings', body: {}, access: RECORDING_STAFF },
+  { method: 'POST', pattern: '/api/studies/:studyId/decoders', sample: '/api/studies/1/decoders', body: {}, access: RECORDING_STAFF },
+  { method: 'POST', pattern: '/api/studies/:studyId/training-jobs', sample: '/api/studies/1/training-jobs', body: {},
+    access: RECORDING_STAFF },
+  { method: 'GET', pattern: '/api/decoders', sample: '/api/decoders?studyId=1', access: ALL },
+  { method: 'GET', pattern: '/api/decoders/:decoderId', sample: '/api/decoders/999', access: ALL },
+  { method: 'GET', pattern: '/api/decoders/:decoderId/artifact', sample: '/api/decoders/999/artifact', access: ALL },
+  { method: 'POST', pattern: '/api/decoders/:decoderId/freeze', sample: '/api/decoders/999/freeze', access: STUDY_OWNERS },
+  { method: 'GET', pattern: '/api/training-jobs', sample: '/api/training-jobs?studyId=1', access: ALL },
+  { method: 'GET', pattern: '/api/training-jobs/:jobId', sample: '/api/training-jobs/999', access: ALL },
 ];
 
 interface LayerLike {

@@ -1,0 +1,81 @@
+/**
+ * The server's view of a decoder artifact (shared/decoder/artifact.ts): reading a sealed
+ * artifact (seal, format and shapes checked), the facts the decoders table keeps, the
+ * interpretation in the API's shape, and re-verifying stored text. Used by the import route and
+ * by the training worker.
+ */
+import type { DecoderInterpretation } from '../../shared/api/decoders';
+import { ArtifactIntegrityError, parseArtifact, serialiseArtifact, verifyArtifact, type DecoderArtifact } from '../../shared/decoder/artifact';
+import { interpretDecoder } from '../../shared/decoder/interpret';
+import { ParamError, ShapeError } from '../../shared/types';
+import type { ArtifactFacts } from './protocol';
+
+/** A refused artifact: 'artifact-hash-mismatch' (the seal) or 'invalid-artifact' (format, shapes), naming the field. */
+export class ArtifactCheckError extends Error {
+  constructor(readonly code: 'artifact-hash-mismatch' | 'invalid-artifact', readonly field: string, message: string) {
+    super(message);
+    this.name = 'ArtifactCheckError';
+  }
+}
+
+export interface SealedArtifact {
+  artifact: DecoderArtifact;
+  /** Canonical JSON including the seal: what is stored and downloaded. */
+  artifactText: string;
+  sha256: string;
+  facts: ArtifactFacts;
+}
+
+export function factsOf(a: DecoderArtifact): ArtifactFacts {
+  return { recipe: a.recipe, classes: [...a.classes], channelNames: [...a.channelNames], sampleRateHz: a.sampleRateHz,
+           epochStartS: a.epoch.tminS, epochEndS: a.epoch.tmaxS };
+}
+
+/** Checks a parsed artifact (seal first) and returns it with its canonical text. */
+export function readSealedArtifact(value: unknown): SealedArtifact {
+  let artifact: DecoderArtifact;
+  try {
+    artifact = parseArtifact(value);
+  } catch (err) {
+    if (err instanceof ArtifactIntegrityError) {
+      throw new ArtifactCheckError('artifact-hash-mismatch', 'artifact.sha256',
+        `The artifact's SHA-256 seal does not match its content (sealed ${err.expected.slice(0, 16)}…, content ${err.actual.slice(0, 16)}…)`);
+    }
+    if (err instanceof ShapeError || err instanceof ParamError) {
+      throw new ArtifactCheckError('invalid-artifact', err.field, `Not a decoder artifact: ${err.message}`);
+    }
+    throw err;
+  }
+  return { artifact, artifactText: serialiseArtifact(artifact), sha256: artifact.sha256, facts: factsOf(artifact) };
+}
+
+/** Re-verifies stored artifact text against its seal and the stored hash; throws ArtifactCheckError. */
+export function verifyArtifactText(text: string, sha256: string): void {
+  let value: unknown;
+  try { value = JSON.parse(text); } catch { throw new ArtifactCheckError('invalid-artifact', 'artifact', 'The stored artifact is not JSON'); }
+  const ok = verifyArtifact(value) && (value as { sha256?: unknown }).sha256 === sha256;
+  if (!ok) throw new ArtifactCheckError('artifact-hash-mismatch', 'artifact.sha256', 'The stored artifact does not match its SHA-256 seal');
+}
+
+/** The interpretation in the API's shape (shared/api/decoders.ts), from shared/decoder/interpret. */
+export function interpretArtifact(a: DecoderArtifact): DecoderInterpretation {
+  // Every non-zero singular value, so that `rank` is the component's rank.
+  const i = interpretDecoder(a, Number.POSITIVE_INFINITY);
+  if (i.recipe === 'covariance') {
+    return { recipe: 'covariance', spatialPatterns: i.spatialPatterns.map((p) => ({
+      channelNames: p.channelNames, values: p.pattern, eigenvalue: p.eigenvalue, filter: p.filter, favours: p.favours })) };
+  }
+  return { recipe: 'component-tf', components: i.components.map((c) => ({
+    index: c.component,
+    plausibility: c.plausibility ?? Number.NaN,
+    priorWeight: c.priorWeight,
+    weightNorm: c.weightNorm,
+    rank: c.singularValues.length,
+    scalpMap: { channelNames: c.channelNames, values: c.map },
+    weights: { frequenciesHz: c.frequenciesHz, timesS: c.timesS, values: c.weights },
+    frequencyProfile: c.frequencyProfile,
+    timeCourse: c.timeCourse,
+    peakFrequencyHz: c.peakFrequencyHz,
+    peakTimeS: c.peakTimeS,
+  })) };
+}
