@@ -8,6 +8,12 @@ import { encodeDisplayFrame } from '../../shared/api/live';
 import type { ChannelMajor } from '../../shared/types';
 
 export const MAX_DISPLAY_RATE_HZ = 250;
+
+/** Block-average factor and resulting display rate for a feed rate. */
+export function displayRateFor(sampleRateHz: number): { factor: number; rateHz: number } {
+  const factor = Math.max(1, Math.ceil(sampleRateHz / MAX_DISPLAY_RATE_HZ));
+  return { factor, rateHz: sampleRateHz / factor };
+}
 /** Display samples per frame, as a duration. */
 export const DISPLAY_FRAME_S = 0.1;
 
@@ -24,8 +30,7 @@ export class DisplayDecimator {
   private readonly frameSamples: number;
 
   constructor(readonly channels: number, sampleRateHz: number) {
-    this.factor = Math.max(1, Math.ceil(sampleRateHz / MAX_DISPLAY_RATE_HZ));
-    this.rateHz = sampleRateHz / this.factor;
+    ({ factor: this.factor, rateHz: this.rateHz } = displayRateFor(sampleRateHz));
     this.acc = new Float64Array(channels);
     this.frameSamples = Math.max(1, Math.round(this.rateHz * DISPLAY_FRAME_S));
     this.frame = new Float32Array(this.frameSamples * channels);

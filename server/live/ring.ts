@@ -39,19 +39,22 @@ export class SampleRing {
     return from >= this.start && from + length <= this.written;
   }
 
-  /** A copy of [from, from + length) as [channel][sample]; the range must be held. */
-  read(from: number, length: number): ChannelMajor {
+  /**
+   * A copy of [from, from + length) as [channel][sample]; the range must be held. Written into
+   * `out` when given (one array of `length` per channel), else into new arrays.
+   */
+  read(from: number, length: number, out?: ChannelMajor): ChannelMajor {
     if (!this.holds(from, length)) {
       throw new RangeError(`ring holds [${this.start}, ${this.written}), asked for [${from}, ${from + length})`);
     }
     const cap = this.capacity;
-    return this.rows.map((row) => {
-      const out = new Float64Array(length);
+    return this.rows.map((row, c) => {
+      const dst = out?.[c] ?? new Float64Array(length);
       const p = from % cap;
       const first = Math.min(length, cap - p);
-      out.set(row.subarray(p, p + first), 0);
-      if (first < length) out.set(row.subarray(0, length - first), first);
-      return out;
+      dst.set(row.subarray(p, p + first), 0);
+      if (first < length) dst.set(row.subarray(0, length - first), first);
+      return dst;
     });
   }
 

@@ -103,6 +103,8 @@ export class SessionPipeline {
   private limitsNow: ArtifactLimits | null = null;
   private readonly pp: Float64Array;
   private readonly rms: Float64Array;
+  /** The epoch being predicted (reused: predict reads it synchronously and keeps nothing). */
+  private readonly epochBuf: ChannelMajor;
 
   constructor(readonly decoder: LiveDecoder, readonly feedChannelCount: number, channelIndex: Int32Array,
               readonly startSample: number, private readonly sink: PipelineSink, fixedLimits: ArtifactLimits | null = null) {
@@ -118,6 +120,7 @@ export class SessionPipeline {
     this.baseline = new BaselineCollector(ch, length, Math.round(BASELINE_S * fs));
     this.pp = new Float64Array(ch);
     this.rms = new Float64Array(ch);
+    this.epochBuf = Array.from({ length: ch }, () => new Float64Array(length));
     if (fixedLimits) {
       this.limitsNow = fixedLimits;
       this.baseline.finish();
@@ -239,7 +242,7 @@ export class SessionPipeline {
 
   private predict(cue: PendingCue, from: number, arrivalNs: bigint, receivedNs: bigint): TrialDraft {
     const { length } = this.decoder.epoch;
-    const epoch = this.ring.read(from, length);
+    const epoch = this.ring.read(from, length, this.epochBuf);
     const feedFrom = from + this.startSample;
     const flags: TrialFlag[] = [];
     if (this.gaps.overlaps(feedFrom, feedFrom + length)) flags.push('gap');

@@ -8,6 +8,7 @@ import type { Request, Response } from 'express';
 import type { WebSocket } from 'ws';
 import { can, idParamSchema } from '../../shared/api';
 import { LiveCloseCode, type ConsoleMessage, type DisplayMessage } from '../../shared/api/live';
+import { displayRateFor } from '../live/display';
 import type { LiveSocketDeps } from './index';
 
 /** The signed-in user's id from the login cookie (runs the session middleware on the upgrade request). */
@@ -36,11 +37,11 @@ export async function consoleSocket(ws: WebSocket, req: IncomingMessage, url: UR
     return;
   }
   if (!live) { ws.close(LiveCloseCode.notFound, 'no such session'); return; }
-  const displayRateHz = live.session?.pipeline?.displayRateHz ?? null;
   const decoder = live.session?.decoder;
   const hello: ConsoleMessage = {
     type: 'hello', session: live.detail,
-    displayRateHz: displayRateHz ?? (decoder ? decoder.sampleRateHz / Math.max(1, Math.ceil(decoder.sampleRateHz / 250)) : 0),
+    // Display frames carry the decoder's channels, filtered, at the decimated rate (0 for a stopped session: no frames).
+    displayRateHz: decoder ? displayRateFor(decoder.sampleRateHz).rateHz : 0,
     channelNames: decoder ? [...decoder.channelNames] : [],
   };
   ws.send(JSON.stringify(hello));
