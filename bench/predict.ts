@@ -24,21 +24,24 @@ const reps = Number(arg('--reps', '300'));
 const dir = new URL('../../shared/data/eegmmidb/', import.meta.url);
 const runs = ['R04', 'R08', 'R12'].map((r) => edfToRecording(readEdf(new Uint8Array(readFileSync(new URL(`${subject}${r}.edf`, dir))))));
 
-function stats(ms: number[]): string {
-  const s = [...ms].sort((a, b) => a - b);
+function stats(r: { ms: number[]; cpuMs: number }): string {
+  const s = [...r.ms].sort((a, b) => a - b);
   const q = (p: number) => s[Math.min(s.length - 1, Math.floor(p * s.length))]!;
-  return `median ${q(0.5).toFixed(3)} ms, p95 ${q(0.95).toFixed(3)} ms, mean ${(s.reduce((a, b) => a + b, 0) / s.length).toFixed(3)} ms`;
+  return `wall median ${q(0.5).toFixed(3)} ms, p95 ${q(0.95).toFixed(3)} ms; CPU ${r.cpuMs.toFixed(3)} ms per call`;
 }
 
-function time(f: () => unknown): number[] {
+/** Wall time per call and CPU time per call (process CPU over the batch / calls). */
+function time(f: () => unknown): { ms: number[]; cpuMs: number } {
   for (let i = 0; i < 20; i++) f(); // warm-up (JIT)
-  const out: number[] = [];
+  const ms: number[] = [];
+  const c0 = process.cpuUsage();
   for (let i = 0; i < reps; i++) {
     const t = performance.now();
     f();
-    out.push(performance.now() - t);
+    ms.push(performance.now() - t);
   }
-  return out;
+  const c = process.cpuUsage(c0);
+  return { ms, cpuMs: (c.user + c.system) / 1000 / reps };
 }
 
 for (const recipe of ['covariance', 'component-tf'] as RecipeName[]) {
