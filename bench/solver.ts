@@ -2,8 +2,11 @@
  * Solver timings (STYLE.md §9: speed is measured by a script, never by a timed test).
  * Run: npx tsx bench/solver.ts
  *  1. ICA: 64 channels × 40 000 samples (250 s at 160 Hz) → 15 components, both methods.
- *  2. Trace-norm logistic regression: 45 trials, 15 blocks of 16×18, a 10-value λ path.
- * The data are synthetic (seeded), shaped like the decoder's real inputs.
+ *  2. Trace-norm logistic regression: 45 trials, 15 blocks of 16×18, a 10-value λ path, with a
+ *     strong planted rank-1 effect (two blocks active throughout) and a weak one (below what 45
+ *     trials can detect, so noise blocks enter: 3 to 8 active blocks, the costlier case).
+ * The data are synthetic (seeded), shaped like the decoder's real inputs. Wall times depend on
+ * what else runs on the machine; CPU times are printed beside them.
  */
 import { createRng } from '../shared/linalg/random';
 import { fitIca } from '../shared/ica/ica';

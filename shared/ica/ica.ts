@@ -22,6 +22,8 @@ import { fastIca } from './fastica';
 import { extendedInfomax } from './infomax';
 import { pcaWhiten } from './whitening';
 
+export { fromArtifact, toArtifact, type IcaArtifact } from './artifact';
+
 export type IcaMethod = 'extended-infomax' | 'fastica';
 
 /** Hyperparameters of an ICA fit. */

@@ -70,6 +70,14 @@ describe('fitTraceNorm on the REFERENCES §4 dataset', () => {
     expect(m.converged).toBe(true);
   });
 
+  it('gives zero weights and the class-prior bias for unbalanced classes too', () => {
+    const six = Uint8Array.from(y.map((v, i) => (i === 9 ? 1 : v)));
+    const m = fitTraceNorm(tiny, six, { lambda: 1.0001 * lambdaMax(tiny, six), alpha: 0.5 });
+    // REFERENCES.md §4: for λ ≥ λ_max, W = 0 exactly (the α term does not change it) and b0 = log(n1/n0).
+    expect(m.weights.every((w) => w.every((v) => v === 0))).toBe(true);
+    expectClose(m.bias, Math.log(6 / 4), { rtol: 1e-14 });
+  });
+
   it('matches scikit-learn for λ = 0, α = 1', () => {
     const m = fitTraceNorm(tiny, labels, { lambda: 0, alpha: 1, tol: 1e-12, maxIter: 100000 });
     // Reference: tracenorm.json ridge.sklearnCoef (LogisticRegression C = 1, lbfgs); REFERENCES §4 tolerance 1e-5.
