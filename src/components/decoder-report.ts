@@ -73,7 +73,8 @@ export function readReport(report: Record<string, unknown> | null): ReportFigure
     trials: pick(num, report.trials),
     foldAccuracies: pick(numArray, report.foldAccuracies) ?? [],
     repeatAccuracies: pick(numArray, report.repeatAccuracies) ?? [],
-    lambda: pick(num, report.lambda),
+    // λ is a number, or {final, perFold, ...} from the trainer (issue 4 REPORT.json).
+    lambda: pick(num, report.lambda) ?? pick(z.object({ final: num }).loose(), report.lambda)?.final ?? null,
     rank: pick(num, report.rank),
     baselines,
     totalSeconds: timings?.totalSeconds ?? null,

@@ -63,4 +63,40 @@ export class TraceRing {
     }
     return n;
   }
+
+  /**
+   * Like copyOrdered, but at most two points per bucket of `bucketSize` samples: each channel's
+   * minimum and maximum in the order they occurred (an envelope that keeps spikes, unlike
+   * dropping samples). Buckets are aligned to the absolute sample count, so the envelope does not
+   * shimmer as the window scrolls. Both points of a bucket share the x of its first and middle
+   * sample (one screen column apart at most). Outputs need length + 4 slots. Returns the count.
+   */
+  copyEnvelope(outTimes: Float64Array, outY: Float64Array[], scale: number, offsets: ArrayLike<number>, bucketSize: number): number {
+    const B = Math.floor(bucketSize);
+    if (B < 2) return this.copyOrdered(outTimes, outY, scale, offsets);
+    const n = this.length, cap = this.capacity;
+    const a0 = this.written - n; // absolute index of the oldest sample held
+    let m = 0;
+    for (let k = Math.floor(a0 / B); k * B < this.written; k++) {
+      const from = Math.max(a0, k * B), to = Math.min(this.written, (k + 1) * B);
+      const mid = (from + to - 1) >> 1;
+      outTimes[m] = this.timesS[from % cap]!;
+      outTimes[m + 1] = this.timesS[mid % cap]!;
+      for (let c = 0; c < this.channels; c++) {
+        const src = this.data[c]!;
+        let lo = Infinity, hi = -Infinity, loAt = from, hiAt = from;
+        for (let a = from; a < to; a++) {
+          const v = src[a % cap]!;
+          if (v < lo) { lo = v; loAt = a; }
+          if (v > hi) { hi = v; hiAt = a; }
+        }
+        const first = loAt <= hiAt ? lo : hi, second = loAt <= hiAt ? hi : lo;
+        const dst = outY[c]!, off = offsets[c]!;
+        dst[m] = first * scale + off;
+        dst[m + 1] = second * scale + off;
+      }
+      m += 2;
+    }
+    return m;
+  }
 }

@@ -1,5 +1,5 @@
 import { markRaw, onBeforeUnmount, ref, shallowRef, toValue, watch, type MaybeRefOrGetter } from 'vue';
-import { consoleMessageSchema, decodeDisplayFrame, type ConsoleMessage, type QualityChannel } from '@shared/api/live';
+import { consoleMessageSchema, decodeDisplayFrame, LiveCloseCode, type ConsoleMessage, type QualityChannel } from '@shared/api/live';
 import { type SessionDetail, type SessionEvent, type Trial } from '@shared/api/sessions';
 import { consoleSocketUrl, openSocket, type SocketFactory } from '../api/live';
 import { listSessionEvents, listTrials } from '../api/sessions';
@@ -34,9 +34,13 @@ export interface LiveFeedOptions {
   reconnectDelayMs?: number;
 }
 
-/** Close codes 4000-4999 are the server's refusals (no session, no permission): no reconnect. */
+/**
+ * The server's refusals (shared/api/live.ts LiveCloseCode: bad request, not signed in, not
+ * allowed, no such session): no reconnect. 4503 "going away" is not one: it follows a stop (the
+ * status says so) or means the server is restarting or found this client too slow.
+ */
 function isRefusal(code: number): boolean {
-  return code >= 4000 && code < 5000;
+  return code >= 4000 && code < 5000 && code !== LiveCloseCode.goingAway;
 }
 
 /** Insert or replace by id, keeping trial order by cue. */
@@ -181,6 +185,11 @@ export function useLiveFeed(sessionId: MaybeRefOrGetter<number>, options: LiveFe
       if (isRefusal(ev.code)) {
         connection.value = 'refused';
         refusal.value = ev.reason || `The server refused the console (code ${ev.code})`;
+        return;
+      }
+      // A stopped session sends nothing more: keep what is on screen, do not reconnect.
+      if (session.value?.status === 'stopped') {
+        connection.value = 'closed';
         return;
       }
       connection.value = 'reconnecting';

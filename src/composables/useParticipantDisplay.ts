@@ -1,5 +1,5 @@
 import { onBeforeUnmount, onMounted, ref, shallowRef } from 'vue';
-import { displayMessageSchema, type DisplayMessage } from '@shared/api/live';
+import { displayMessageSchema, LiveCloseCode, type DisplayMessage } from '@shared/api/live';
 import { displaySocketUrl, openSocket, type SocketFactory } from '../api/live';
 
 export type DisplayPhase = 'connecting' | 'ready' | 'cue' | 'feedback' | 'rest' | 'paused' | 'finished' | 'refused' | 'lost';
@@ -68,7 +68,8 @@ export function useParticipantDisplay(token: string, options: { socketFactory?: 
     };
     ws.onclose = (ev: CloseEvent) => {
       if (closing || phase.value === 'finished') return;
-      phase.value = ev.code >= 4000 && ev.code < 5000 ? 'refused' : 'lost';
+      // 4403: the link is unknown, used or expired (shared/api/live.ts LiveCloseCode.forbidden).
+      phase.value = ev.code === LiveCloseCode.forbidden || ev.code === LiveCloseCode.notFound ? 'refused' : 'lost';
     };
   });
 

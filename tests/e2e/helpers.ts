@@ -7,7 +7,7 @@ import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
-import { start, type ServerHandle } from '../../server/index';
+import { start, type ServerHandle, type StartOptions } from '../../server/index';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 
@@ -31,10 +31,13 @@ export interface TestServer {
   stop(): Promise<void>;
 }
 
-/** Start Aftercue on port 0 with a fresh data folder (seeded demo accounts); stop removes the folder. */
-export async function startTestServer(): Promise<TestServer> {
+/**
+ * Start Aftercue on port 0 with a fresh data folder (seeded demo accounts); stop removes the
+ * folder. `options` adds start options (e.g. the embedded simulator's speed).
+ */
+export async function startTestServer(options: Omit<StartOptions, 'port' | 'dataDir'> = {}): Promise<TestServer> {
   const dataDir = mkdtempSync(join(tmpdir(), 'aftercue-e2e-'));
-  const handle = await start({ port: 0, dataDir, quiet: true });
+  const handle = await start({ quiet: true, ...options, port: 0, dataDir });
   return {
     url: handle.url,
     handle,

@@ -65,3 +65,13 @@ describe('runningAccuracy', () => {
     expect(r.n.length).toBe(500);
   });
 });
+
+describe('RunningAccuracyPanel with very few trials', () => {
+  it('says from how many trials significance becomes reachable instead of a threshold above 100 %', () => {
+    const w = mount(RunningAccuracyPanel, { props: { trials: trials(2, 2), classes: 2, offlineAccuracy: null } });
+    // 2 classes: (1/2)^4 = 0.0625 > 0.05 >= (1/2)^5 = 0.03125, so 5 trials (binomial tail, common practice).
+    expect(w.get('[data-test="chance"]').text()).toBe('from 5 scored trials');
+    // REFERENCES.md §5 method: with n = 2, k0 = 2 and no count can exceed it.
+    expect(w.get('[data-test="verdict"]').text()).toContain('Not yet above chance');
+  });
+});
