@@ -15,7 +15,7 @@ import {
   type CueValues, type RecordingMeta,
 } from '../db/queries/recordings';
 import type { Actor, AppContext } from '../context';
-import type { TrainingRecordingInput } from '../workers/protocol';
+import { recordingFileFacts, type RecordingFileFacts, type TrainingRecordingInput } from '../workers/protocol';
 import { AppError, notFound } from '../errors';
 import { writeAudit } from './audit';
 import { getActiveStudy, getStudyOr404 } from './studies';
@@ -48,11 +48,11 @@ function invalidFile(err: unknown): AppError | null {
   return null;
 }
 
-/** Parses an EDF/EDF+/BDF file into a Recording; AppError 400 'invalid-edf' when it is malformed. */
-export function parseRecordingFile(bytes: Uint8Array): { recording: Recording; format: EdfFormat } {
+/** Parses an EDF/EDF+/BDF file; AppError 400 'invalid-edf' when it is malformed. */
+export function parseRecordingFile(bytes: Uint8Array): RecordingFileFacts {
   try {
     const file = readEdf(bytes);
-    return { recording: edfToRecording(file), format: file.format };
+    return recordingFileFacts(edfToRecording(file), file.format);
   } catch (err) {
     throw invalidFile(err) ?? err;
   }
@@ -66,15 +66,13 @@ export interface NewRecording {
   createdBy: number | null;
 }
 
-/** Stores a recording file (already parsed) and its cues; returns the new id. No audit. */
-export function insertRecordingFile(db: Db, meta: NewRecording, bytes: Uint8Array, parsed: { recording: Recording; format: EdfFormat },
-                                    now: Date): number {
-  const rec = parsed.recording;
-  const samples = rec.data[0]?.length ?? 0;
-  const { cues, counts } = cuesOf(rec.annotations, rec.sampleRateHz);
+/** Stores a recording file (already parsed: its facts) and its cues; returns the new id. No audit. */
+export function insertRecordingFile(db: Db, meta: NewRecording, bytes: Uint8Array, facts: RecordingFileFacts, now: Date): number {
+  const samples = facts.sampleCount;
+  const { cues, counts } = cuesOf(facts.annotations, facts.sampleRateHz);
   return insertRecording(db, {
-    ...meta, format: parsed.format.toLowerCase(), channelNames: rec.channelNames.map(normaliseChannelName),
-    sampleRateHz: rec.sampleRateHz, sampleCount: samples, durationS: samples / rec.sampleRateHz, cueCounts: counts,
+    ...meta, format: facts.format.toLowerCase(), channelNames: facts.channelNames.map(normaliseChannelName),
+    sampleRateHz: facts.sampleRateHz, sampleCount: samples, durationS: samples / facts.sampleRateHz, cueCounts: counts,
     fileBytes: Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength),
     fileSha256: createHash('sha256').update(bytes).digest('hex'),
   }, cues, now);

@@ -18,10 +18,10 @@ import type { Actor, AppContext } from '../context';
 import { AppError, notFound } from '../errors';
 import { CancelledError, runInWorker, type RunningTask } from '../workers/runner';
 import { demoTask, type DemoParams } from '../workers/demo';
-import type { TrainOptions, TrainResult, TrainTask } from '../workers/protocol';
+import type { RecordingFileFacts, TrainOptions, TrainResult, TrainTask } from '../workers/protocol';
 import { writeAudit } from './audit';
 import { insertDecoderFrom } from './decoders';
-import { insertRecordingFile, loadTrainingInput, parseRecordingFile } from './recordings';
+import { insertRecordingFile, loadTrainingInput } from './recordings';
 import { getActiveStudy, getStudyOr404 } from './studies';
 
 /** Defaults of the nested cross-validation (DESIGN.md "The decoder" 7: outer 10-fold, inner folds for lambda). */
@@ -117,12 +117,11 @@ export function trainingJobService(ctx: AppContext, opts: TrainingJobServiceOpti
   }
 
   /** Stores the demo's simulated recording and remembers its id in the job's parameters. */
-  function storeSimulated(job: TrainingJobRow, bytes: Uint8Array, name: string): void {
-    const parsed = parseRecordingFile(bytes);
+  function storeSimulated(job: TrainingJobRow, bytes: Uint8Array, name: string, facts: RecordingFileFacts): void {
     const now = ctx.now();
     db.transaction(() => {
       const id = insertRecordingFile(db, { studyId: job.studyId, participantId: null, name, source: 'simulated', createdBy: null },
-        bytes, parsed, now);
+        bytes, facts, now);
       updateJobParams(db, job.id, { ...job.params, recordingIds: [id] });
       writeAudit(db, null, { action: 'recording.simulate', targetType: 'recording', targetId: id, details: { jobId: job.id, name } }, now);
     });
@@ -155,7 +154,7 @@ export function trainingJobService(ctx: AppContext, opts: TrainingJobServiceOpti
     try {
       task = runInWorker(taskFor(job), {
         onProgress: progressWriter(job.id),
-        onRecording: (bytes, name) => { storeSimulated(job, bytes, name); job = findTrainingJob(db, job.id)!; },
+        onRecording: (bytes, name, facts) => { storeSimulated(job, bytes, name, facts); job = findTrainingJob(db, job.id)!; },
       });
     } catch (err) {
       markJobFailed(db, job.id, err instanceof Error ? err.message : String(err), ctx.now());

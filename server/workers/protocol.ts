@@ -4,7 +4,16 @@
  */
 import type { DecoderInterpretation } from '../../shared/api/decoders';
 import type { Recipe } from '../../shared/api/studies';
-import type { Annotation, ChannelMajor } from '../../shared/types';
+import type { EdfFormat } from '../../shared/formats/edf';
+import type { Annotation, ChannelMajor, Recording } from '../../shared/types';
+
+/** What the recordings table keeps of a parsed file (no samples). */
+export type RecordingFileFacts = Pick<Recording, 'channelNames' | 'sampleRateHz' | 'annotations'> & { format: EdfFormat; sampleCount: number };
+
+export function recordingFileFacts(rec: Recording, format: EdfFormat): RecordingFileFacts {
+  return { channelNames: rec.channelNames, sampleRateHz: rec.sampleRateHz, annotations: rec.annotations, format,
+           sampleCount: rec.data[0]?.length ?? 0 };
+}
 
 /** One stored recording as the worker receives it: its file bytes, or its samples. Cues from the cue table. */
 export type TrainingRecordingInput =
@@ -59,7 +68,7 @@ export type WorkerRequest = { type: 'run'; task: TrainTask };
 
 export type WorkerMessage =
   | { type: 'progress'; fraction: number; stage: string }
-  /** simulate-and-train: the simulated recording, EDF+C bytes, before training starts. */
-  | { type: 'recording'; bytes: Uint8Array; name: string }
+  /** simulate-and-train: the simulated recording, EDF+C bytes and what was read back from them, before training starts. */
+  | { type: 'recording'; bytes: Uint8Array; name: string; facts: RecordingFileFacts }
   | { type: 'result'; result: TrainResult }
   | { type: 'error'; message: string };

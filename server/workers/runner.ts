@@ -4,12 +4,12 @@
  * returned when it ends, and cancelling is `terminate()`.
  */
 import { Worker } from 'node:worker_threads';
-import type { TrainResult, TrainTask, WorkerMessage, WorkerRequest } from './protocol';
+import type { RecordingFileFacts, TrainResult, TrainTask, WorkerMessage, WorkerRequest } from './protocol';
 
 export interface RunHandlers {
   onProgress(fraction: number, stage: string): void;
-  /** simulate-and-train only: the simulated recording's EDF+C bytes (before training). */
-  onRecording?(bytes: Uint8Array, name: string): void;
+  /** simulate-and-train only: the simulated recording's EDF+C bytes and facts (before training). */
+  onRecording?(bytes: Uint8Array, name: string, facts: RecordingFileFacts): void;
 }
 
 export interface RunningTask {
@@ -37,7 +37,7 @@ export function runInWorker(task: TrainTask, handlers: RunHandlers): RunningTask
       // A throwing handler (e.g. a database write) fails the task instead of crashing the thread's owner.
       try {
         if (m.type === 'progress') handlers.onProgress(m.fraction, m.stage);
-        else if (m.type === 'recording') handlers.onRecording?.(m.bytes, m.name);
+        else if (m.type === 'recording') handlers.onRecording?.(m.bytes, m.name, m.facts);
         else if (m.type === 'result') settle(() => resolve(m.result));
         else settle(() => reject(new Error(m.message)));
       } catch (err) {

@@ -9,11 +9,12 @@ import { channelsInOrder } from '../../shared/decoder/online';
 import { ShapeError, type Annotation, type Recording } from '../../shared/types';
 import { simulateRecording } from '../../simulator/offline';
 import { fitDecoder } from './fit';
-import type { TrainingRecordingInput, TrainOptions, TrainResult, TrainTask } from './protocol';
+import { recordingFileFacts, type RecordingFileFacts, type TrainingRecordingInput, type TrainOptions, type TrainResult, type TrainTask } from './protocol';
 
 export interface TaskEmitter {
   progress(fraction: number, stage: string): void;
-  recording(bytes: Uint8Array, name: string): void;
+  /** Hands out a recording file; `bytes` may be transferred (unusable afterwards). */
+  recording(bytes: Uint8Array, name: string, facts: RecordingFileFacts): void;
 }
 
 /** Share of the progress bar spent reading (or simulating) the data before fitting. */
@@ -54,10 +55,12 @@ function simulate(task: Extract<TrainTask, { kind: 'simulate-and-train' }>, emit
   emit.progress(0, 'simulating a calibration recording');
   const { recording } = simulateRecording(task.profile, { seed: task.simulationSeed });
   const bytes = writeEdfPlus(recording, { format: 'EDF+C', recordingCode: 'simulated' });
+  // Train on exactly what is stored: the EDF+C read back (16-bit quantised), not the float original.
+  const file = readEdf(bytes);
+  const stored = edfToRecording(file);
   const trials = recording.annotations.length;
-  emit.recording(bytes, `Simulated calibration run (${trials} cues, seed ${task.simulationSeed})`);
-  // Train on exactly what was stored: the EDF+C read back (16-bit quantised), not the float original.
-  return edfToRecording(readEdf(bytes));
+  emit.recording(bytes, `Simulated calibration run (${trials} cues, seed ${task.simulationSeed})`, recordingFileFacts(stored, file.format));
+  return stored;
 }
 
 /** Runs the task; progress goes out through `emit`, the sealed result is returned. */

@@ -14,7 +14,7 @@ port.once('message', (req: WorkerRequest) => {
   try {
     const result = runTrainTask(req.task, {
       progress: (fraction, stage) => post({ type: 'progress', fraction, stage }),
-      recording: (bytes, name) => post({ type: 'recording', bytes, name }),
+      recording: (bytes, name, facts) => post({ type: 'recording', bytes, name, facts }, [bytes.buffer as ArrayBuffer]),
     });
     post({ type: 'result', result });
   } catch (err) {
