@@ -173,6 +173,7 @@ export function decoderService(ctx: AppContext) {
         const stored = findDecoderArtifact(db, decoderId);
         if (!stored) throw notFound('Decoder');
         if (stored.status === 'frozen') throw new AppError('decoder-frozen', 'This decoder is already frozen', 409);
+        getActiveStudy(db, getOr404(decoderId).studyId);
         try { verifyArtifactText(stored.artifact, stored.sha256); } catch (err) { throw sealError(err) ?? err; }
         if (!freezeDecoder(db, decoderId, actor.id, now)) throw new AppError('decoder-frozen', 'This decoder is already frozen', 409);
         writeAudit(db, actor, { action: 'decoder.freeze', targetType: 'decoder', targetId: decoderId, details: { sha256: stored.sha256 } }, now);

@@ -49,8 +49,11 @@ function mismatch(message: string, fields: Record<string, string>): AppError {
   return new AppError('recording-mismatch', message, 409, fields);
 }
 
-/** Checks the recordings against the study: montage channels present, same rate, every class annotated. */
-function checkRecordings(db: Db, studyId: number, ids: number[], annotationClasses: string[],
+/**
+ * Checks the recordings against the study: montage channels present, same rate, every class
+ * annotated, and at least `folds` cues of each class (stratified folds need one per fold).
+ */
+function checkRecordings(db: Db, studyId: number, ids: number[], annotationClasses: string[], folds: number,
                          study: { channelNames: string[]; sampleRateHz: number }): void {
   const counts: Record<string, number> = {};
   ids.forEach((id, i) => {
@@ -68,6 +71,11 @@ function checkRecordings(db: Db, studyId: number, ids: number[], annotationClass
   if (absent.length > 0) {
     throw mismatch(`No cues labelled ${absent.map((c) => `'${c}'`).join(', ')} in the chosen recordings`,
       { classes: `Not found in the recordings: ${absent.join(', ')} (found: ${Object.keys(counts).join(', ') || 'none'})` });
+  }
+  const fewest = Math.min(...annotationClasses.map((c) => counts[c]!));
+  if (folds > fewest) {
+    throw new AppError('validation', `${folds} folds need at least ${folds} cues of each class`, 400,
+      { folds: `Use at most ${fewest} folds: the smaller class has ${fewest} cues` });
   }
 }
 
@@ -200,12 +208,16 @@ export function trainingJobService(ctx: AppContext, opts: TrainingJobServiceOpti
       const now = ctx.now();
       const job = db.transaction(() => {
         const study = getActiveStudy(db, studyId);
+        // The trace-norm engine is a binary classifier (issue 4): two cue classes per decoder.
+        if (study.cueClasses.length !== 2) {
+          throw new AppError('unsupported-classes', `Decoders separate two classes; this study has ${study.cueClasses.length}`, 409);
+        }
         const classes = input.classes ?? study.cueClasses;
         if (classes.length !== study.cueClasses.length) {
           throw new AppError('validation', 'Give one annotation text per study class', 400,
             { classes: `Give ${study.cueClasses.length} texts, one for each of ${study.cueClasses.join(', ')}` });
         }
-        checkRecordings(db, studyId, input.recordingIds, classes, study);
+        checkRecordings(db, studyId, input.recordingIds, classes, input.folds ?? TRAINING_DEFAULTS.folds, study);
         const params: JobParams = {
           recordingIds: input.recordingIds, recipe: input.recipe ?? study.recipe, classes,
           folds: input.folds ?? TRAINING_DEFAULTS.folds, inner: input.inner ?? TRAINING_DEFAULTS.inner,

@@ -118,6 +118,15 @@ describe('decoders', () => {
     expect([downloaded.sha256, after.headers['x-artifact-sha256']]).toEqual([artifact.sha256, artifact.sha256]);
   });
 
+  it('does not freeze a decoder of an archived study', async () => {
+    const other = (await investigator.post('/api/studies', { ...STUDY, name: 'To archive' }).expect(201)).body.id as number;
+    const { id } = (await importAs(experimenter, { name: 'Orphan', artifact: clone(artifact) }, other)).body as DecoderSummary;
+    await investigator.post(`/api/studies/${other}/archive`).expect(200);
+    const res = await investigator.post(`/api/decoders/${id}/freeze`);
+    // Foundation issue: archived studies are read-only (409 study-archived).
+    expect([res.status, res.body.error.code]).toEqual([409, 'study-archived']);
+  });
+
   it('accepts an import body above the API-wide 100 kB limit on this route only', async () => {
     const big = { ...clone(report), notes: 'x'.repeat(300_000) };
     const res = await importAs(experimenter, { name: 'Large report', artifact: clone(artifact), report: big });

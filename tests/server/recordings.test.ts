@@ -4,6 +4,7 @@ import type { CreateStudyRequest } from '../../shared/api';
 import type { RecordingSummary } from '../../shared/api/recordings';
 import { writeEdfPlus } from '../../shared/formats/edf';
 import type { ServerHandle } from '../../server/index';
+import { loadTrainingInput } from '../../server/services/recordings';
 import { readEegmmidb, skipWithoutRealData } from '../helpers/real-data';
 import { expectClose } from '../helpers/all-close';
 import { countRows, EMAILS, signIn, startTestServer, type Client } from './helpers/server';
@@ -95,6 +96,23 @@ describe('recordings', () => {
     const json = await experimenter.post(`/api/studies/${studyId}/recordings?name=x`, { bytes: 'no' });
     // Issue 6 contract: uploads are application/octet-stream.
     expect([json.status, json.body.error.code]).toEqual([415, 'unsupported-media-type']);
+  });
+
+  it('stores captured samples as Float64 chunks and reads them back exactly', () => {
+    const fs = 250;
+    const n = 2 * 2500 + 17; // two full chunks and a partial one
+    const data = [0, 1].map((c) => Float64Array.from({ length: n }, (_, i) => Math.sin(i * 0.01 * (c + 1)) * 37.123456789 + c / 3));
+    const annotations = [{ onsetS: 1.5, durationS: null, text: 'feet' }];
+    const saved = h.services.recordings.saveSamples({ studyId, participantId: null, name: 'captured', source: 'session', createdBy: null },
+      { channelNames: ['c3', 'CZ'], sampleRateHz: fs, data, annotations, startTime: null }, null);
+    // Chunks of CAPTURE_CHUNK_SAMPLES = 2500 per channel; canonical names per shared/montage.
+    expect(saved).toMatchObject({ source: 'session', channelNames: ['C3', 'Cz'], cueCounts: { feet: 1 }, durationS: n / fs });
+    expect(countRows(h, 'recording_chunks')).toBe(3);
+    const back = loadTrainingInput(h.db, saved.id);
+    if (back.kind !== 'samples') throw new Error('expected samples');
+    // Float64 storage: bit-exact round trip.
+    expect(back.data.map((r) => Array.from(r))).toEqual(data.map((r) => Array.from(r)));
+    expect(back.annotations).toEqual([{ onsetS: 1.5, durationS: 0, text: 'feet' }]);
   });
 
   it('lets a reviewer list but not upload, and needs a name', async () => {

@@ -88,6 +88,14 @@ describe('training jobs', () => {
     expect(res.body.error.fields.classes).toMatch(/T1, T2/);
   });
 
+  it('refuses more folds than cues of the smaller class, naming folds', async () => {
+    const res = await experimenter.post(`/api/studies/${studyId}/training-jobs`, {
+      recordingIds: [recordingId], name: 'Too many folds', classes: ['left-hand', 'right-hand'], folds: 16,
+    });
+    // Stratified k-fold needs at least k trials per class; the run has 15 cues per class.
+    expect([res.status, res.body.error.fields]).toEqual([400, { folds: 'Use at most 15 folds: the smaller class has 15 cues' }]);
+  });
+
   it('lets a reviewer read jobs but not start one', async () => {
     const res = await reviewer.post(`/api/studies/${studyId}/training-jobs`, { recordingIds: [recordingId], name: 'No' });
     // Issue 6 contract: training:run is investigator, experimenter, admin.
