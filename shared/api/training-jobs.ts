@@ -3,7 +3,9 @@
  * recordings, run one at a time in a worker thread; a finished job leaves a draft decoder.
  *
  * POST /api/studies/:studyId/training-jobs CreateTrainingJobRequest -> 201 TrainingJob
- *   (400 'validation'; 409 'study-archived' | 'recording-mismatch' naming what differs)
+ *   (400 'validation', e.g. more folds than cues of a class; 409 'study-archived' |
+ *   'recording-mismatch' naming what differs | 'unsupported-classes' when the study does not have
+ *   exactly two cue classes: decoders are binary)
  * GET /api/training-jobs?studyId=N -> TrainingJob[] (newest first)
  * GET /api/training-jobs/:jobId -> TrainingJob (poll it: progress and stage move while it runs)
  */
