@@ -115,6 +115,11 @@ export function sessionService(ctx: AppContext, engine: LiveEngine) {
     const now = ctx.now();
     let sampleIndex: number | null = s.pipeline?.nextSample ?? null;
     if (kind === 'start') {
+      // Consent may have been withdrawn since the session was set up.
+      const participant = findParticipant(db, row.studyId, row.participantId);
+      if (participant?.consentStatus !== 'given') {
+        throw new AppError('consent-missing', `Participant ${row.participantCode} has not given consent`, 409);
+      }
       const { feed, startSample } = engine.run(s, embeddedProfileOf(db, row.rigId));
       updatePilotSession(db, s.id, { status: 'running', feedId: feed.feedId, startSample, startedAt: now });
       s.startedAtMs = now.getTime();

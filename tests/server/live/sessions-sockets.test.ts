@@ -172,5 +172,13 @@ describe('the console and the participant display of a running session', () => {
       decoderId: draft }).expect(409);
     // Issue 6: only frozen decoders can start a session.
     expect(r2.body.error.code).toBe('decoder-not-frozen');
+
+    const p3 = await fx.experimenter.post(`/api/studies/${studyId}/participants`, { code: 'P-303', consentStatus: 'given',
+      consentDate: '2026-01-05' }).expect(201);
+    const s3 = await fx.experimenter.post('/api/sessions', { studyId, participantId: p3.body.id, rigId: rig.id, decoderId }).expect(201);
+    await fx.experimenter.patch(`/api/studies/${studyId}/participants/${p3.body.id as number}`, { consentStatus: 'withdrawn' }).expect(200);
+    const r3 = await fx.experimenter.post(`/api/sessions/${s3.body.id as number}/start`).expect(409);
+    // Consent withdrawn after setup: the session does not start.
+    expect(r3.body.error.code).toBe('consent-missing');
   });
 });
