@@ -17,6 +17,7 @@ import { launchBrowser, newPage, screenshotPath, signInThroughUi, startTestServe
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
 const INVESTIGATOR = 'investigator@aftercue.test';
 const EXPERIMENTER = 'experimenter@aftercue.test';
+const REVIEWER = 'reviewer@aftercue.test';
 const DEMO_RIG = 'Demo rig';
 const DECODER_NAME = 'Browser-test covariance decoder';
 
@@ -91,6 +92,41 @@ describe('a pilot session in the browser', () => {
     await context.close();
   });
 
+  it('an experimenter uploads a calibration recording, trains a decoder and lands on it', async () => {
+    const { context, page, consoleErrors } = await newPage(browser);
+    await signInThroughUi(page, server.url, EXPERIMENTER);
+    await page.locator('.study-table .el-table__row', { hasText: DEMO_STUDY.name }).click();
+    await page.locator('[data-test="study-decoders"]').click();
+    await page.waitForURL(/\/studies\/\d+\/decoders$/);
+
+    await page.locator('[data-test="recording-file"]').setInputFiles(join(files, 'calibration.edf'));
+    const row = page.locator('.recs .el-table__row', { hasText: 'calibration.edf' });
+    await row.waitFor({ timeout: 30_000 });
+    // The simulated run's cues by annotation text (aftercue simulate writes the class labels as annotations).
+    expect(await row.innerText()).toMatch(/left-hand ×\d+/);
+
+    await page.locator('[data-test="train-decoder"]').click();
+    const dialog = page.getByRole('dialog', { name: 'Train a decoder' });
+    await dialog.getByText('Spatial covariance').click();
+    await dialog.locator('input[name="name"]').fill('Trained in the browser');
+    // 3 outer folds keep the job short; the rest as the dialog proposes (study classes, seed 1).
+    const folds = dialog.locator('[data-field="folds"] input');
+    await folds.fill('3');
+    await folds.press('Tab');
+    await dialog.locator('[data-test="start-training"]').click();
+    await dialog.waitFor({ state: 'hidden' });
+    // The job shows while it runs, then the page moves to the draft decoder it made (useTrainingJobs polling).
+    await page.locator('[data-test="training-jobs"]', { hasText: 'Trained in the browser' }).waitFor();
+    await page.screenshot({ path: screenshotPath('decoders') });
+    await page.waitForURL(/\/decoders\/\d+$/, { timeout: 150_000 });
+    await page.getByRole('heading', { name: 'Trained in the browser' }).waitFor();
+    expect(await page.locator('[data-test="decoder-status"]').innerText()).toBe('Draft');
+    // An experimenter may not freeze (shared/api/roles.ts decoder:freeze is investigator and admin).
+    expect(await page.locator('[data-test="freeze"]').count()).toBe(0);
+    expect(consoleErrors.filter((m) => !/status of 401/.test(m))).toEqual([]);
+    await context.close();
+  }, 200_000);
+
   it('an experimenter runs a session: predictions arrive, accuracy updates, the participant sees cue and feedback', async () => {
     const { context, page, consoleErrors } = await newPage(browser);
     await signInThroughUi(page, server.url, EXPERIMENTER, '/sessions');
@@ -103,6 +139,7 @@ describe('a pilot session in the browser', () => {
     await choose(page, 'participantId', 'P-001');
     await choose(page, 'rigId', DEMO_RIG);
     await choose(page, 'decoderId', DECODER_NAME);
+    await page.screenshot({ path: screenshotPath('session-new') });
     await dialog.locator('[data-test="create-session"]').click();
     await page.waitForURL(/\/sessions\/\d+$/);
 
@@ -148,7 +185,20 @@ describe('a pilot session in the browser', () => {
     // The signed-out probe GET /api/auth/me answers 401 by contract; nothing else may be logged.
     expect(consoleErrors.filter((m) => !/status of 401/.test(m))).toEqual([]);
     expect(participant.consoleErrors.filter((m) => !/status of 401/.test(m))).toEqual([]);
+    const consoleUrl = page.url();
+    await page.getByRole('link', { name: '← Sessions' }).click();
+    await page.locator('[data-test="session-table"] .el-table__row', { hasText: 'Stopped' }).waitFor();
+    await page.mouse.move(0, 0);
+    await page.screenshot({ path: screenshotPath('sessions') });
     await participant.context.close();
     await context.close();
+
+    // A reviewer sees the same console read-only (shared/api/roles.ts: session:read without session:run).
+    const reviewer = await newPage(browser);
+    await signInThroughUi(reviewer.page, server.url, REVIEWER, new URL(consoleUrl).pathname);
+    await reviewer.page.locator('[data-test="trial-row"]').nth(1).waitFor();
+    expect(await reviewer.page.locator('[data-test="start"], [data-test="stop"], [data-test="display-link"]').count()).toBe(0);
+    expect(await reviewer.page.locator('.trials__switch input:not([disabled])').count()).toBe(0);
+    await reviewer.context.close();
   });
 });
