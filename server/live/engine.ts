@@ -128,6 +128,7 @@ export class LiveEngine implements FeedHooks {
     const { map } = channelMap(feed.header.channelNames, s.decoder.channelNames);
     const startSample = feed.nextSample;
     s.feed = feed;
+    s.preview = null;
     s.pipeline = new SessionPipeline(s.decoder, feed.header.channelNames.length, map, startSample, s);
     return { feed, startSample };
   }
@@ -136,6 +137,7 @@ export class LiveEngine implements FeedHooks {
   halt(s: LiveSession): number | null {
     const stopSample = s.pipeline?.nextSample ?? null;
     s.pipeline = null;
+    s.preview = null;
     this.embedded.stop(s.identity.rigId);
     return stopSample;
   }
@@ -177,9 +179,27 @@ export class LiveEngine implements FeedHooks {
     return s && s.pipeline && s.feed === feed ? s : null;
   }
 
+  /**
+   * A ready session's preview: while a console watches, its rig's feed runs through a pipeline of
+   * its own (trace and quality only; cues give no trials), dropped at start, so the session's
+   * filters still start at its first sample.
+   */
+  private preview(feed: FeedState, firstSample: number): SessionPipeline | null {
+    const s = this.byRig.get(feed.rigId);
+    if (!s || s.status !== 'ready' || s.feed !== feed || !s.hub.watched || feedMismatch(s.decoder, feed.header)) {
+      if (s) s.preview = null;
+      return null;
+    }
+    if (!s.preview || s.preview.nextSample !== firstSample) {
+      const { map } = channelMap(feed.header.channelNames, s.decoder.channelNames);
+      s.preview = new SessionPipeline(s.decoder, feed.header.channelNames.length, map, firstSample, s);
+    }
+    return s.preview;
+  }
+
   chunk(feed: FeedState, f: ChunkFrame, arrivalNs: bigint, receivedNs: bigint): void {
     const s = this.running(feed);
-    if (!s) return;
+    if (!s) { this.preview(feed, f.firstSample)?.chunk(f, arrivalNs, receivedNs); return; }
     const p = s.pipeline!;
     if (f.firstSample !== p.nextSample) {
       this.ctx.log.error(`session ${s.id}: chunk at ${f.firstSample}, expected ${p.nextSample}; skipped`);
@@ -197,7 +217,7 @@ export class LiveEngine implements FeedHooks {
 
   gap(feed: FeedState, fromSample: number, toSample: number, f: GapFrame, arrivalNs: bigint, receivedNs: bigint): void {
     const s = this.running(feed);
-    if (!s) return;
+    if (!s) { this.preview(feed, fromSample)?.gap(fromSample, toSample, arrivalNs, receivedNs); return; }
     s.gapSeen(fromSample, toSample, f.reason === 'overflow' ? "the bridge's buffer overflowed" : 'lost at the source');
     s.pipeline!.gap(fromSample, toSample, arrivalNs, receivedNs);
   }

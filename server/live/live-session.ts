@@ -34,6 +34,8 @@ export class LiveSession implements PipelineSink {
   status: SessionStatus;
   feed: FeedState | null = null;
   pipeline: SessionPipeline | null = null;
+  /** Before start: the feed's trace and quality for the console (engine.ts); gives no trials. */
+  preview: SessionPipeline | null = null;
   startedAtMs: number | null;
   stoppedAtMs: number | null;
   readonly counts: SessionCounts;
@@ -85,6 +87,7 @@ export class LiveSession implements PipelineSink {
   // PipelineSink
 
   trial(d: TrialDraft): void {
+    if (!this.pipeline) return;
     const classes = this.decoder.classes;
     const trueClass = d.trueIndex === null ? null : classes[d.trueIndex]!;
     const predictedClass = classes[d.predictedIndex]!;
@@ -134,6 +137,7 @@ export class LiveSession implements PipelineSink {
   quality(channels: QualityChannel[]): void { this.hub.console({ type: 'quality', channels }); }
 
   limits(l: ArtifactLimits): void {
+    if (!this.pipeline) return;
     this.env.store({ op: 'session-limits', sessionId: this.id, limits: {
       source: l.source, windows: l.windows, final: l.final, channelNames: [...this.decoder.channelNames],
       medianPeakToPeakUv: Array.from(l.medianPeakToPeakUv), madPeakToPeakUv: Array.from(l.madPeakToPeakUv),
@@ -144,6 +148,7 @@ export class LiveSession implements PipelineSink {
   }
 
   rejudged(cueId: number, artifactChannels: string[]): void {
+    if (!this.pipeline) return;
     const t = this.trials.get(cueId);
     if (!t || artifactChannels.length === 0) return;
     this.count(t.trueClass, t.predictedClass, t.flags, t.markedBad, -1);
@@ -155,6 +160,7 @@ export class LiveSession implements PipelineSink {
   }
 
   skippedCue(cueId: number, sample: number, reason: string): void {
+    if (!this.pipeline) return;
     this.env.event(this.id, 'flag', `Cue ${cueId} gives no trial: ${reason}`, sample);
   }
 

@@ -9,7 +9,10 @@ import { simulatedSource } from '../../../simulator/simulated-source';
 import { offlineTrials } from '../../../server/live/offline';
 import type { HelloFrame } from '../../../shared/protocol';
 import { expectAllClose } from '../../helpers/all-close';
+import type { ConsoleMessage } from '../../../shared/api/live';
+import { EMAILS } from '../helpers/server';
 import { TestBridge } from './helpers/bridge';
+import { loginCookie, Watcher } from './helpers/watcher';
 import { trainDecoderWithArtifact, type TrainedDecoder } from './helpers/decoder';
 import { demoStudy, insertFrozenDecoder, newRig, startLive, type LiveFixture } from './helpers/live-server';
 
@@ -153,6 +156,33 @@ describe('a pilot session on a feed streamed over /ws/feed', () => {
     expect(detail.body.status).toBe('ready');
     await bridge.close();
   });
+
+  it("shows a ready session's feed on the console before start (trace and quality, no trials), and starts fresh", async () => {
+    const rig = await newRig(fx.admin, 'Preview rig');
+    const { hello, items: feedItems } = items(40, 105);
+    const bridge = await TestBridge.open(fx.h.url, rig.key);
+    await bridge.hello(hello);
+    const sessionId = await createSession(rig.id);
+    const console = await Watcher.open<ConsoleMessage>(fx.h, `/ws/console?sessionId=${sessionId}`, await loginCookie(fx.h, EMAILS.experimenter));
+    await console.until(() => console.of('hello').length > 0, 5000, 'hello');
+    const before = feedItems.findIndex((it) => it.kind === 'chunk' && it.firstSample >= 12 * 250);
+    feedItems.slice(0, before).forEach((it, i) => bridge.send(itemFrame(it, i + 1)));
+    await bridge.waitAck(before);
+    await console.until(() => console.frames.length > 0 && console.of('quality').length >= 5, 5000, 'preview');
+    // A signal check before the run: frames and quality of the connected feed, and no trial yet.
+    expect(console.of('trial')).toHaveLength(0);
+    const started = await fx.experimenter.post(`/api/sessions/${sessionId}/start`).expect(200);
+    expect(started.body.feed.samplesReceived).toBe(0);
+    feedItems.slice(before).forEach((it, i) => bridge.send(itemFrame(it, before + i + 1)));
+    await bridge.waitAck(feedItems.length);
+    await fx.experimenter.post(`/api/sessions/${sessionId}/stop`).expect(200);
+    const offline = offlineTrials(fx.h.db, sessionId, trained.live);
+    expect(offline.length).toBeGreaterThanOrEqual(2);
+    // The session's filters start at its own first sample, whatever the preview did: online equals offline, 1e-9.
+    for (const o of offline) expectAllClose(o.online, o.offline!, { atol: 1e-9, rtol: 0 });
+    console.close();
+    await bridge.close();
+  }, 30_000);
 
   it('refuses a feed with an unknown rig key (4401)', async () => {
     const bridge = await TestBridge.open(fx.h.url, `rig_${'x'.repeat(43)}`);
