@@ -56,6 +56,8 @@ export default defineConfig({
           name: 'client',
           environment: 'happy-dom',
           include: ['tests/src/**/*.test.ts'],
+          // Generous: CI shares two cores between the type check, workers and the browser.
+          testTimeout: 30_000,
         },
       },
       {

@@ -9,7 +9,10 @@ if (!existsSync(file)) {
 }
 const report = JSON.parse(readFileSync(file, 'utf8'));
 const passed = report.numPassedTests ?? 0;
-const failed = (report.numFailedTests ?? 0) + (report.numFailedTestSuites ?? 0);
+// A file that failed to load has no failing test of its own: count it as one failure.
+const brokenFiles = (report.testResults ?? []).filter((f) => f.status === 'failed'
+  && !(f.assertionResults ?? []).some((a) => a.status === 'failed')).length;
+const failed = (report.numFailedTests ?? 0) + brokenFiles;
 const skipped = (report.numPendingTests ?? 0) + (report.numTodoTests ?? 0);
 console.log(`${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ''}`);
 process.exit(failed > 0 || passed === 0 ? 1 : 0);
