@@ -33,6 +33,11 @@ export type IcaStageParams = {
   bandHz: [number, number];
   /** Keep every k-th sample for the ICA fit (default 2; module comment). */
   subsample?: number;
+  /**
+   * ICA stopping tolerance; default 1e-4 for FastICA (scikit-learn's FastICA default, the same
+   * criterion as shared/ica/fastica.ts), the shared/ica default for Infomax.
+   */
+  tol?: number;
 };
 
 /** The fitted ICA stage: the decomposition and each component's plausibility. */
@@ -49,7 +54,8 @@ export interface IcaClock { icaSeconds: number; featureSeconds: number }
 export function icaStage(params: IcaStageParams, clock?: IcaClock): Stage<Epochs, ComponentTrials> {
   const subsample = params.subsample ?? 2;
   if (!Number.isInteger(subsample) || subsample < 1) throw new ParamError('subsample', `expected an integer >= 1, got ${subsample}`);
-  const full = { ...params, channelNames: [...params.channelNames], subsample };
+  const tol = params.tol ?? (params.method === 'fastica' ? 1e-4 : null);
+  const full = { ...params, channelNames: [...params.channelNames], subsample, tol };
   return {
     kind: 'ica-components', params: full,
     fit(x: Epochs, _labels?: Uint8Array, ctx?: FitContext) {
@@ -62,7 +68,8 @@ export function icaStage(params: IcaStageParams, clock?: IcaClock): Stage<Epochs
         x.forEach((trial, i) => { const src = trial[c]!; for (let k = 0, j = 0; k < samples; k += subsample, j++) out[i * per + j] = src[k]!; });
         return out;
       });
-      const ica = fitIca(concat, { nComponents: full.nComponents, method: full.method, seed: (ctx?.seed ?? 0) >>> 0 });
+      const ica = fitIca(concat, { nComponents: full.nComponents, method: full.method, seed: (ctx?.seed ?? 0) >>> 0,
+                                   ...(full.tol === null ? {} : { tol: full.tol }) });
       if (clock) clock.icaSeconds += (performance.now() - t0) / 1000;
       const acts = transformWith(ica, x, clock);
       const band = { lowHz: full.bandHz[0], highHz: full.bandHz[1], sampleRateHz: full.sampleRateHz };
