@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { mount } from '@vue/test-utils';
 import RunningAccuracyPanel from '../../../src/components/RunningAccuracyPanel.vue';
 import { runningAccuracy } from '../../../src/composables/session-stats';
-import { expectClose } from '../helpers/close';
+import { expectClose } from '../../helpers/all-close';
 import { trial, trials } from '../helpers/live';
 
 function panel(list: ReturnType<typeof trials>, offlineAccuracy: number | null = 0.78) {

@@ -3,7 +3,7 @@ import { mount } from '@vue/test-utils';
 import { COMMON_32, positionOf } from '../../../shared/montage';
 import ScalpMap from '../../../src/components/ScalpMap.vue';
 import { evaluateSpline, fitScalpSpline, headRadius, placeValues, scalpGrid } from '../../../src/components/scalp-interp';
-import { expectAllClose } from '../helpers/close';
+import { expectAllClose } from '../../helpers/all-close';
 
 /** A left-right dipole-like map: value = u (right ear positive), plus a bump over C3 (invented). */
 function pattern(names: readonly string[]): number[] {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import fixture from '../../fixtures/console/latency_quantiles.json';
 import { latencyHistogram, quantile, trialOutcome } from '../../../src/composables/session-stats';
-import { expectClose } from '../helpers/close';
+import { expectClose } from '../../helpers/all-close';
 import { trial } from '../helpers/live';
 
 describe('latency figures', () => {

@@ -3,7 +3,7 @@ import { defineComponent, h } from 'vue';
 import { mount } from '@vue/test-utils';
 import { encodeDisplayFrame } from '../../../shared/api/live';
 import { useLiveFeed } from '../../../src/composables/useLiveFeed';
-import { expectAllClose } from '../helpers/close';
+import { expectAllClose } from '../../helpers/all-close';
 import { fakeServer, settle } from '../helpers/fake-server';
 import { fakeSockets, sessionDetail, trial } from '../helpers/live';
 

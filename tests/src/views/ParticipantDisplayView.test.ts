@@ -1,6 +1,6 @@
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { mount } from '@vue/test-utils';
-import { expectClose } from '../helpers/close';
+import { expectClose } from '../../helpers/all-close';
 import { fakeSockets } from '../helpers/live';
 
 // The view opens its socket through src/api/live.ts openSocket; the test stands in for it.
