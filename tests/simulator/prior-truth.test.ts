@@ -1,0 +1,141 @@
+// The plausibility prior (shared/decoder/prior.ts, issue 4 part 3) on the simulator's ground truth:
+// ICA components that are blinks, eye movements or muscle bursts must score lower than the
+// components that are the cortical sources carrying the profile's effects; with the prior off every
+// penalty weight is 1. Scenario: tests/fixtures/simulator/decodability-hand-imagery.json (ours).
+import { readFileSync } from 'node:fs';
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { FittedIcaStage } from '../../shared/decoder/recipes/ica-stage';
+import { prepareTraining } from '../../shared/decoder/train';
+import { deriveSeed } from '../../shared/evaluation/folds';
+import { simulateRecording, type GroundTruth } from '../../simulator';
+import { expectAllClose } from '../helpers/all-close';
+
+const PROFILE = JSON.parse(readFileSync(new URL('../fixtures/simulator/decodability-hand-imagery.json', import.meta.url), 'utf8')) as Record<string, unknown>;
+// Diagnostic knob for docs/decodability.md (other simulation seeds); unset in normal runs.
+const SIM_SEED = process.env.AFTERCUE_DECODABILITY_SEED === undefined ? undefined : Number(process.env.AFTERCUE_DECODABILITY_SEED);
+const CLASSES: [string, string] = ['left-hand', 'right-hand'];
+// The ICA seed of trainDecoder's final fit with its default seed 0 (train.ts: deriveSeed(seed, 0x7fff)).
+const ICA_SEED = deriveSeed(0, 0x7fff);
+
+/** Pearson correlation over channels (a mixing column against a truth pattern; CAR does not change it). */
+function pearson(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  const n = a.length;
+  let ma = 0, mb = 0;
+  for (let i = 0; i < n; i++) { ma += a[i]! / n; mb += b[i]! / n; }
+  let ab = 0, aa = 0, bb = 0;
+  for (let i = 0; i < n; i++) { ab += (a[i]! - ma) * (b[i]! - mb); aa += (a[i]! - ma) ** 2; bb += (b[i]! - mb) ** 2; }
+  return ab / Math.sqrt(aa * bb);
+}
+
+function pattern(truth: GroundTruth, sourceId: string): number[] {
+  const s = truth.sources.find((x) => x.id === sourceId);
+  if (!s) throw new Error(`ground truth has no source '${sourceId}'`);
+  return s.pattern;
+}
+
+/** Share of a component's energy on the epochs inside the truth's windows of the given artifact kinds. */
+function energyShareInside(truth: GroundTruth, kinds: string[], acts: Float64Array[], onsetsS: Float64Array, offset: number, fs: number): number {
+  let inside = 0, total = 0;
+  acts.forEach((x, i) => {
+    const s0 = Math.round(onsetsS[i]! * fs) + offset;
+    const mask = new Uint8Array(x.length);
+    for (const a of truth.artifacts) {
+      if (!kinds.includes(a.kind)) continue;
+      for (let t = Math.max(a.startSample, s0); t < Math.min(a.endSample, s0 + x.length); t++) mask[t - s0] = 1;
+    }
+    for (let t = 0; t < x.length; t++) { total += x[t]! ** 2; if (mask[t]) inside += x[t]! ** 2; }
+  });
+  return inside / total;
+}
+
+type Kind = 'blink' | 'eye-movement' | 'muscle' | 'cortical-effect' | 'other';
+interface Labelled { index: number; kind: Kind; plausibility: number; weight: number; detail: string }
+
+let on: FittedIcaStage;
+let off: FittedIcaStage;
+let labelled: Labelled[];
+
+beforeAll(() => {
+  const { recording, truth } = simulateRecording(PROFILE, SIM_SEED === undefined ? {} : { seed: SIM_SEED });
+  const fit = (prior: boolean) => {
+    const p = prepareTraining(recording, { recipe: 'component-tf', classes: CLASSES, prior });
+    return { p, ica: p.plan.stages()[0]!.fit(p.data.epochs, p.data.labels, { seed: ICA_SEED, innerK: 3 }) as unknown as FittedIcaStage };
+  };
+  const a = fit(true);
+  on = a.ica;
+  off = fit(false).ica;
+  const { p } = a;
+  const fs = p.sampleRateHz;
+  const acts = on.transform(p.data.epochs).activations;
+  const offset = Math.round(p.plan.window.tminS * fs);
+  const effectSources = [...new Set(truth.effects.map((e) => e.sourceId))];
+  labelled = on.ica.unmixing.map((_, k) => {
+    const map = on.ica.mixing.map((row) => row[k]!);
+    const act = acts.map((trial) => trial[k]!);
+    const r = (id: string) => Math.abs(pearson(map, pattern(truth, id)));
+    const share = (kind: string) => energyShareInside(truth, [kind], act, p.data.onsets[0]!, offset, fs);
+    const m = { blink: r('eye-vertical'), saccade: r('eye-horizontal'), muscle: Math.max(r('muscle-left'), r('muscle-right')),
+                effect: Math.max(...effectSources.map(r)), blinkShare: share('blink'), saccadeShare: share('saccade'), muscleShare: share('muscle') };
+    // Labels from the ground truth (thresholds ours): an artifact component's map is the artifact's pattern (|r| >= 0.9)
+    // or a third of its energy lies inside that artifact's windows; a cortical effect component's map is an effect
+    // source's pattern (|r| >= 0.8) and it is no artifact component.
+    const kind: Kind = m.blink >= 0.9 || m.blinkShare >= 1 / 3 ? 'blink'
+      : m.saccade >= 0.9 || m.saccadeShare >= 1 / 3 ? 'eye-movement'
+        : m.muscle >= 0.9 || m.muscleShare >= 1 / 3 ? 'muscle'
+          : m.effect >= 0.8 ? 'cortical-effect' : 'other';
+    const s = on.plausibility![k]!;
+    return { index: k, kind, plausibility: s.plausibility, weight: s.weight,
+             detail: `|r| blink ${m.blink.toFixed(2)} saccade ${m.saccade.toFixed(2)} muscle ${m.muscle.toFixed(2)} effect ${m.effect.toFixed(2)}; ` +
+                     `energy share blinks ${m.blinkShare.toFixed(2)} saccades ${m.saccadeShare.toFixed(2)} muscle ${m.muscleShare.toFixed(2)}; ` +
+                     `sub-scores ${JSON.stringify(s.subScores, (_, v: unknown) => (typeof v === 'number' ? Number(v.toFixed(2)) : v))}` };
+  });
+  console.info(labelled.map((l) => `component ${l.index} ${l.kind}: plausibility ${l.plausibility.toFixed(3)} (${l.detail})`).join('\n'));
+}, 300_000);
+
+const of = (kinds: Kind[]) => labelled.filter((l) => kinds.includes(l.kind));
+
+// Known failures: checks the prior does not meet at the fixture's seed (measured values in each comment and in
+// docs/decodability.md). They run as expected failures, so the suite stays green and turns red the day one starts to
+// pass (then make it a plain check). With AFTERCUE_DECODABILITY_SEED set every check runs plainly.
+const knownFailure = SIM_SEED === undefined ? it.fails : it;
+
+describe('the plausibility prior on the simulator\'s ground truth', () => {
+  it('finds blink and cortical effect components to compare', () => {
+    // Source: ground truth (eye-vertical pattern and blink times; the effects' source patterns); labels as in beforeAll.
+    expect(of(['blink']).length).toBeGreaterThan(0);
+    expect(of(['cortical-effect']).length).toBeGreaterThan(0);
+  });
+
+  const below = (kind: Kind) => {
+    const corticalMin = Math.min(...of(['cortical-effect']).map((l) => l.plausibility));
+    // Source: issue 4 part 3 and DESIGN.md "The decoder" item 6 (eye, muscle and line-noise components are penalised
+    // more); labels from the ground truth. An empty kind passes vacuously (the console lists the labels).
+    for (const a of of([kind])) expect(a.plausibility, `component ${a.index} (${kind})`).toBeLessThan(corticalMin);
+    // Source: prior.ts module comment (penalty weight w = 1/p): the same order in the weights.
+    for (const a of of([kind])) expect(a.weight, `component ${a.index} (${kind})`).toBeGreaterThan(1 / corticalMin);
+  };
+
+  it('scores every blink component below every cortical effect component', () => below('blink'));
+
+  // Known failure at the fixture's seed: the horizontal-EOG component (|r| = 0.94 with the truth's saccade pattern)
+  // scores 1.000, the C3 mu component 0.774. prior.ts has no horizontal eye-movement criterion: its eye score needs
+  // map energy within 40° of Fpz, and the F7/F8 saccade map lies outside that cap.
+  knownFailure('scores every horizontal eye-movement component below every cortical effect component [known failure]',
+    () => below('eye-movement'));
+
+  // Known failure at the fixture's seed: the two components with over a third of their energy inside the truth's
+  // muscle bursts score 0.835 and 0.823 (muscle sub-scores 0.18 and 0.20 after the 40 Hz low-pass), above the C3 mu
+  // component's 0.774, which the focal criterion penalises (sub-score 0.25: on 32 channels a 22° source puts over
+  // 35 % of its map energy on one electrode).
+  knownFailure('scores every muscle component below every cortical effect component [known failure]', () => below('muscle'));
+
+  it('switched off, gives every component weight 1 on the same decomposition', () => {
+    // Source: issue 4 part 3 (switchable); prior.ts (enabled = false: plausibility and weight 1).
+    expectAllClose(off.blockWeights, new Float64Array(off.blockWeights.length).fill(1), { rtol: 0, atol: 0 });
+    expectAllClose(off.plausibility!.map((s) => s.plausibility), new Float64Array(off.blockWeights.length).fill(1), { rtol: 0, atol: 0 });
+    // Source: the same seed and epochs give the same ICA (shared/ica is deterministic for a seed); only the weights differ.
+    expectAllClose(off.ica.mixing.flatMap((row) => Array.from(row)), on.ica.mixing.flatMap((row) => Array.from(row)), { rtol: 0, atol: 0 });
+    // Source: with the prior on, the artifact components really are penalised (not all 1), so the switch changes something.
+    expect(Math.max(...on.blockWeights)).toBeGreaterThan(1);
+  });
+});
