@@ -57,8 +57,10 @@ export interface ComponentTfModel {
 /** Learned model of the covariance recipe. */
 export interface CovarianceModel {
   kind: 'covariance';
-  /** P (r×C): whitening on the leading principal directions of the training mean covariance. */
+  /** P (r×C): whitening by the training mean covariance, on the r kept directions (recipes/covariance.ts). */
   whitening: EncodedRows;
+  /** C̄ Pᵀ (C×r), for spatial patterns (interpretation only). */
+  patternBasis: EncodedRows;
   /** S̄ (r×r, row-major) and the global scale. */
   centre: string; // f64
   scale: number;

@@ -8,7 +8,7 @@
  * largest-magnitude entry is positive (v_j flips with it; σ u vᵀ is unchanged).
  * covariance: W = Σ_j μ_j e_j e_jᵀ (symmetric eigendecomposition of (W + Wᵀ)/2); per non-zero
  * μ_j the spatial filter Pᵀ e_j and, following Haufe et al. 2014 (NeuroImage 87:96-110), the
- * pattern C̄ Pᵀ e_j = V_r Λ_r^(1/2) e_j. Positive μ: more power along the filter favours classes[1].
+ * pattern (training mean covariance)·Pᵀ e_j, i.e. the artifact's patternBasis times e_j. Positive μ: more power along the filter favours classes[1].
  */
 import { svd } from '../linalg/svd';
 import { symmetricEig } from '../linalg/symmetric-eig';
@@ -93,8 +93,7 @@ export function spatialPatterns(a: DecoderArtifact, count = Infinity): SpatialPa
   const r = m.rank, c = a.channelNames.length;
   const sym = Float64Array.from({ length: r * r }, (_, idx) => 0.5 * (w[idx]! + w[(idx % r) * r + Math.floor(idx / r)]!));
   const { values, vectors } = symmetricEig(sym, r);
-  // Patterns need C̄ Pᵀ e = P⁺ e; P = Λ^(−1/2) Vᵀ has orthogonal rows, so P⁺ = Pᵀ (P Pᵀ)⁻¹.
-  const rowNorm2 = p.map((row) => row.reduce((s, x) => s + x * x, 0));
+  const basis = decodeRows(m.patternBasis, 'model.patternBasis'); // [channel][r], the pattern basis
   const top = values.reduce((mx, v) => Math.max(mx, Math.abs(v)), 0);
   const order = Array.from(values.keys()).filter((j) => top > 0 && Math.abs(values[j]!) > 1e-10 * top)
     .sort((i, j) => Math.abs(values[j]!) - Math.abs(values[i]!)).slice(0, count);
@@ -104,7 +103,7 @@ export function spatialPatterns(a: DecoderArtifact, count = Infinity): SpatialPa
       const e = vectors[i * r + j]!;
       for (let ch = 0; ch < c; ch++) {
         filter[ch]! += p[i]![ch]! * e;
-        pattern[ch]! += (p[i]![ch]! / rowNorm2[i]!) * e;
+        pattern[ch]! += basis[ch]![i]! * e;
       }
     }
     return { eigenvalue: values[j]!, favours: values[j]! > 0 ? a.classes[1] : a.classes[0], channelNames: [...a.channelNames],

@@ -61,7 +61,7 @@ export function covarianceModel(fp: FittedPipeline<unknown>): CovarianceModel {
   const cov = stage<FittedWhitenedCovariance>(fp, 0, 'whitened-covariance');
   const clf = stage<FittedTraceNormCv>(fp, 1, 'tracenorm-logreg-cv');
   return {
-    kind: 'covariance', whitening: encodeRows(cov.whitening), centre: encodeF64(cov.centre), scale: cov.scale,
+    kind: 'covariance', whitening: encodeRows(cov.whitening), patternBasis: encodeRows(cov.dewhitening), centre: encodeF64(cov.centre), scale: cov.scale,
     weight: encodeF64(clf.model.weights[0]!), bias: clf.model.bias, lambda: clf.model.lambda, rank: cov.whitening.length,
   };
 }

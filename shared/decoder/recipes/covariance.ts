@@ -114,16 +114,25 @@ function makeFitted(whitening: Float64Array[], dewhitening: Float64Array[], cent
 
 /** Hyperparameters of the whitened-covariance stage. */
 export type WhitenedCovarianceParams = {
-  /** Keep the leading `rank` principal directions of C̄ (null: all above 1e-10·λ_max). */
+  /** Number of whitened directions kept (null: all above 1e-10·λ_max of C̄). */
   rank?: number | null;
+  /**
+   * Which directions are kept when `rank` is set: 'variance', the leading principal directions
+   * of C̄ (PCA before whitening); or 'fluctuation', after whitening all directions, the leading
+   * eigenvectors U of M = mean_i (S_i − S̄)², i.e. the directions in which the trials'
+   * covariances vary most (label-free). Default 'fluctuation' (see module comment).
+   */
+  subspace?: 'variance' | 'fluctuation';
 };
 
 /** Stage: whitened, centred, scaled trial covariances (module comment). */
 export function whitenedCovarianceStage(params: WhitenedCovarianceParams = {}): Stage<Epochs, MatrixTrials> {
   const rank = params.rank ?? null;
+  const subspace = params.subspace ?? 'fluctuation';
   if (rank !== null && !(Number.isInteger(rank) && rank >= 1)) throw new ParamError('rank', `expected an integer >= 1 or null, got ${rank}`);
+  if (subspace !== 'variance' && subspace !== 'fluctuation') throw new ParamError('subspace', `expected 'variance' or 'fluctuation', got ${String(subspace)}`);
   return {
-    kind: 'whitened-covariance', params: { rank },
+    kind: 'whitened-covariance', params: { rank, subspace },
     fit(x) {
       const { trials, channels: c } = checkEpochs(x);
       if (trials < 2) throw new ShapeError('epochs', `expected at least 2 training trials, got ${trials}`);
@@ -132,14 +141,27 @@ export function whitenedCovarianceStage(params: WhitenedCovarianceParams = {}): 
       for (const cv of covs) for (let j = 0; j < c * c; j++) mean[j]! += cv[j]! / trials;
       const { values, vectors } = symmetricEig(mean, c);
       const keep: number[] = [];
-      for (let j = 0; j < c && (rank === null || j < rank); j++) if (values[j]! > 1e-10 * values[0]!) keep.push(j);
+      const pcaRank = subspace === 'variance' ? rank : null;
+      for (let j = 0; j < c && (pcaRank === null || j < pcaRank); j++) if (values[j]! > 1e-10 * values[0]!) keep.push(j);
       if (keep.length === 0) throw new ShapeError('epochs', 'expected signals with non-zero power, got all zeros');
-      const whitening = keep.map((j) => Float64Array.from({ length: c }, (_, a) => vectors[a * c + j]! / Math.sqrt(values[j]!)));
-      const dewhitening = Array.from({ length: c }, (_, a) => Float64Array.from(keep, (j) => vectors[a * c + j]! * Math.sqrt(values[j]!)));
-      const r = keep.length;
-      const s = covs.map((cv) => congruence(whitening, cv, c, new Float64Array(r * r)));
-      const centre = new Float64Array(r * r);
-      for (const si of s) for (let j = 0; j < r * r; j++) centre[j]! += si[j]! / trials;
+      let whitening = keep.map((j) => Float64Array.from({ length: c }, (_, a) => vectors[a * c + j]! / Math.sqrt(values[j]!)));
+      // C̄ Pᵀ = V_r Λ_r^(1/2): the pattern basis (Haufe et al. 2014), [channel][direction].
+      let dewhitening = Array.from({ length: c }, (_, a) => Float64Array.from(keep, (j) => vectors[a * c + j]! * Math.sqrt(values[j]!)));
+      let r = keep.length;
+      let s = covs.map((cv) => congruence(whitening, cv, c, new Float64Array(r * r)));
+      let centre = meanOf(s, r * r);
+      if (subspace === 'fluctuation' && rank !== null && rank < r) {
+        const u = fluctuationBasis(s, centre, r, rank); // [r][rank]
+        whitening = Array.from({ length: rank }, (_, k) => {
+          const row = new Float64Array(c);
+          for (let i = 0; i < r; i++) { const w = u[i]![k]!; const pi = whitening[i]!; for (let a = 0; a < c; a++) row[a]! += w * pi[a]!; }
+          return row;
+        });
+        dewhitening = dewhitening.map((d) => Float64Array.from({ length: rank }, (_, k) => { let acc = 0; for (let i = 0; i < r; i++) acc += d[i]! * u[i]![k]!; return acc; }));
+        r = rank;
+        s = covs.map((cv) => congruence(whitening, cv, c, new Float64Array(r * r)));
+        centre = meanOf(s, r * r);
+      }
       let ss = 0;
       for (const si of s) for (let j = 0; j < r * r; j++) ss += (si[j]! - centre[j]!) ** 2;
       const scale = Math.sqrt(ss / (trials * r * r));
@@ -147,6 +169,31 @@ export function whitenedCovarianceStage(params: WhitenedCovarianceParams = {}): 
       return makeFitted(whitening, dewhitening, centre, scale);
     },
   };
+}
+
+function meanOf(s: readonly Float64Array[], size: number): Float64Array {
+  const m = new Float64Array(size);
+  for (const si of s) for (let j = 0; j < size; j++) m[j]! += si[j]! / s.length;
+  return m;
+}
+
+/** Leading `k` eigenvectors of M = mean_i (S_i − S̄)² (r×r), as rows [i][k]. */
+function fluctuationBasis(s: readonly Float64Array[], centre: Float64Array, r: number, k: number): Float64Array[] {
+  const m = new Float64Array(r * r);
+  const d = new Float64Array(r * r);
+  for (const si of s) {
+    for (let j = 0; j < r * r; j++) d[j] = si[j]! - centre[j]!;
+    for (let a = 0; a < r; a++) {
+      for (let b = a; b < r; b++) {
+        let acc = 0;
+        for (let t = 0; t < r; t++) acc += d[a * r + t]! * d[t * r + b]!;
+        m[a * r + b]! += acc / s.length;
+      }
+    }
+  }
+  for (let a = 0; a < r; a++) for (let b = 0; b < a; b++) m[a * r + b] = m[b * r + a]!;
+  const { vectors } = symmetricEig(m, r);
+  return Array.from({ length: r }, (_, i) => Float64Array.from({ length: k }, (_, j) => vectors[i * r + j]!));
 }
 
 /** Rebuilds the fitted stage from its artifact. */

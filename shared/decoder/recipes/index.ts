@@ -39,6 +39,8 @@ export interface RecipeOptions {
   car?: boolean;
   /** ICA components (component-tf, default 15) or covariance rank (covariance, default 32). */
   components?: number;
+  /** Directions kept by the covariance rank reduction (recipes/covariance.ts; default 'fluctuation'). */
+  covarianceSubspace?: 'variance' | 'fluctuation';
   /** Plausibility prior on (default true); component-tf only. */
   prior?: boolean;
   icaMethod?: IcaMethod;
@@ -74,9 +76,10 @@ export function planRecipe(opts: RecipeOptions, sampleRateHz: number, channelNam
                                              order: opts.order ?? COVARIANCE_DEFAULTS.order, notchHz: opts.notchHz ?? null,
                                              car: opts.car ?? COVARIANCE_DEFAULTS.car });
     const rank = Math.min(opts.components ?? 32, channelNames.length);
+    const subspace = opts.covarianceSubspace ?? 'fluctuation';
     return {
-      recipe: 'covariance', preprocess, window, settings: { rank, lambda },
-      stages: (clock) => [whitenedCovarianceStage({ rank }) as AnyStage, traceNormCvStage(lambda, clock) as AnyStage],
+      recipe: 'covariance', preprocess, window, settings: { rank, subspace, lambda },
+      stages: (clock) => [whitenedCovarianceStage({ rank, subspace }) as AnyStage, traceNormCvStage(lambda, clock) as AnyStage],
     };
   }
   const window = opts.window ?? { tminS: -0.5, tmaxS: 4 };
