@@ -7,6 +7,7 @@
  * replay R12 through the frozen decoder's live stream (predictRecording).
  *
  * Run: npx tsx bench/eegmmidb.ts [--subjects S001,S002] [--repeats 5] [--recipes covariance,component-tf] [--json] [--no-later]
+ *        [--components N] (ICA components / covariance rank, as `aftercue train --components`) [--no-prior]
  *
  * Data: Schalk et al. 2004, IEEE TBME 51(6):1034-1043; Goldberger et al. 2000, Circulation
  * 101(23):e215-e220; PhysioNet eegmmidb v1.0.0; Open Data Commons Attribution License v1.0.
@@ -43,6 +44,8 @@ const repeats = Number(arg('--repeats') ?? 5);
 const recipes = (arg('--recipes') ?? 'covariance,component-tf').split(',') as RecipeName[];
 const json = process.argv.includes('--json');
 const later = !process.argv.includes('--no-later');
+const components = arg('--components') === undefined ? {} : { components: Number(arg('--components')) };
+const prior = !process.argv.includes('--no-prior');
 
 function load(subject: string, run: string): Recording {
   return edfToRecording(readEdf(new Uint8Array(readFileSync(new URL(`${subject}${run}.edf`, DIR)))));
@@ -79,12 +82,14 @@ for (const subject of subjects) {
   const sourceNames = ['R04', 'R08', 'R12'].map((r) => `${subject}${r}.edf`);
   const row: Row = { subject, trials: 0, recipes: {}, cspLda: NaN, bandpowerLogreg: NaN, cspLaterRun: null };
   recipes.forEach((recipe, j) => {
-    const { report } = trainDecoder(runs, { recipe, classes: ['T1', 'T2'], folds: 10, inner: 5, repeats, seed: 0, baselines: j === 0, sourceNames });
+    const { report } = trainDecoder(runs, { recipe, classes: ['T1', 'T2'], folds: 10, inner: 5, repeats, seed: 0, baselines: j === 0, sourceNames,
+                                          prior, ...components });
     row.trials = report.trials;
     if (report.baselines) { row.cspLda = report.baselines.cspLda.accuracy; row.bandpowerLogreg = report.baselines.bandpowerLogreg.accuracy; }
     let laterRun: number | null = null;
     if (later) {
-      const artifact = fitDecoder(runs.slice(0, 2), { recipe, classes: ['T1', 'T2'], seed: 0, sourceNames: sourceNames.slice(0, 2) });
+      const artifact = fitDecoder(runs.slice(0, 2), { recipe, classes: ['T1', 'T2'], seed: 0, sourceNames: sourceNames.slice(0, 2),
+                                                    prior, ...components });
       laterRun = predictRecording(loadDecoder(JSON.parse(JSON.stringify(artifact)) as unknown), runs[2]!, ['T1', 'T2']).accuracy;
     }
     row.recipes[recipe] = { accuracy: report.nestedCvAccuracy, cvSeconds: report.timings.cvSeconds, cvCpuSeconds: report.timings.cvCpuSeconds,
@@ -107,7 +112,8 @@ if (json) {
   process.stdout.write(`${JSON.stringify({ repeats, recipes, rows, totalSeconds: totalS, cpuSeconds: cpu(), memory: mem, citation: EEGMMIDB_CITATION }, null, 2)}\n`);
 } else {
   const lines: string[] = [];
-  lines.push(`eegmmidb S001-S010 subset, R04+R08+R12, T1 vs T2; stratified 10-fold x ${repeats} repeat(s), inner 5-fold; ours vs REFERENCE-ACCURACY.md (ref)`);
+  lines.push(`eegmmidb S001-S010 subset, R04+R08+R12, T1 vs T2; stratified 10-fold x ${repeats} repeat(s), inner 5-fold; ours vs REFERENCE-ACCURACY.md (ref)` +
+    `${components.components === undefined ? '' : `; components/rank ${components.components}`}${prior ? '' : '; prior off'}`);
   lines.push('| subject | trials | CSP+LDA | ref | bandpower+LR | ref | component-tf | ref | covariance | ref (1 split) | cv s (wall/cpu) comp-tf | cv s cov |');
   lines.push('|---|---|---|---|---|---|---|---|---|---|---|---|');
   const secs = (r: Row, k: string) => (r.recipes[k] ? `${r.recipes[k]!.cvSeconds.toFixed(0)}/${r.recipes[k]!.cvCpuSeconds?.toFixed(0)}` : '-');
