@@ -13,6 +13,12 @@
  * first seconds. The stream and the offline path do this identically, so their outputs agree
  * to rounding for any chunking.
  *
+ * Missing samples: a non-finite sample (NaN from a dropped chunk or an EDF+D gap) would stay in
+ * the IIR state for ever, so before filtering it is replaced by the channel's last finite value
+ * (0 before any), the same way live and offline. Each FilteredEpoch counts the filled samples in
+ * its window and in the second before it (where the filter's memory mostly lies), so a trial can
+ * be flagged; the probabilities of such trials are not to be trusted.
+ *
  * Sample rule (same as shared/decoder/epochs.ts): a cue at sample c has its epoch start at
  * c + round(tminS·fs) and round(tmaxS·fs) − round(tminS·fs) samples; the epoch is complete once
  * sample start + length − 1 has arrived.
@@ -90,6 +96,8 @@ export interface FilteredEpoch {
   readonly data: ChannelMajor;
   /** Sample index of the cue in the stream. */
   readonly cueSample: number;
+  /** Samples (any channel) filled in for missing data in the window or the second before it. */
+  readonly filledSamples: number;
 }
 
 /**
@@ -119,6 +127,29 @@ export interface DecoderStream {
   epochAt(cueSample: number): FilteredEpoch | null;
 }
 
+/**
+ * Replaces non-finite samples by the channel's last finite value (module comment), in place of
+ * a copy: returns the chunk itself when every sample is finite.
+ * @param last per channel, the last finite value seen (NaN: none yet, then 0 is used); advanced
+ * @param filled optional per-sample flags of the chunk, set to 1 where any channel was filled
+ */
+export function holdMissing(chunk: ChannelMajor, last: Float64Array, filled?: Uint8Array): ChannelMajor {
+  let out: ChannelMajor | null = null;
+  for (let c = 0; c < chunk.length; c++) {
+    const x = chunk[c]!;
+    let prev = last[c]!;
+    for (let i = 0; i < x.length; i++) {
+      const v = x[i]!;
+      if (Number.isFinite(v)) { prev = v; continue; }
+      if (out === null) out = chunk.map((ch) => Float64Array.from(ch));
+      out[c]![i] = Number.isNaN(prev) ? 0 : prev;
+      if (filled) filled[i] = 1;
+    }
+    last[c] = prev;
+  }
+  return out ?? chunk;
+}
+
 /** Options of `createPreprocessStream`. */
 export interface StreamOptions {
   /** Filtered history kept for late epoch requests, seconds beyond the epoch span; default 30. */
@@ -136,6 +167,9 @@ export function createPreprocessStream(spec: PreprocessSpec, window: EpochWindow
   const { offset, length } = epochSamples(window, fs);
   const capacity = Math.max(length, 1) + Math.max(offset, 0) + Math.ceil((opts.historyS ?? 30) * fs);
   const ring = Array.from({ length: channels }, () => new Float64Array(capacity));
+  const filledRing = new Uint8Array(capacity);
+  const last = new Float64Array(channels).fill(NaN);
+  const lookBack = Math.round(fs);
   let state: SosState | null = null;
   let received = 0;
   let scratch = new Float64Array(0);
@@ -146,8 +180,10 @@ export function createPreprocessStream(spec: PreprocessSpec, window: EpochWindow
       if (chunk.length !== channels) throw new ShapeError('chunk', `expected ${channels} channels, got ${chunk.length}`);
       const n = chunk[0]!.length;
       if (n === 0) return;
-      if (state === null) state = steadyStateFor(sos, Float64Array.from(chunk, (c) => c[0]!));
-      const y = sosfiltChunk(sos, chunk, state);
+      const filled = new Uint8Array(n);
+      const held = holdMissing(chunk, last, filled);
+      if (state === null) state = steadyStateFor(sos, Float64Array.from(held, (c) => c[0]!));
+      const y = sosfiltChunk(sos, held, state);
       if (spec.car) {
         if (scratch.length < n) scratch = new Float64Array(n);
         commonAverageReferenceInPlace(y, undefined, scratch);
@@ -158,6 +194,7 @@ export function createPreprocessStream(spec: PreprocessSpec, window: EpochWindow
         const from = Math.max(0, n - capacity);
         for (let i = from; i < n; i++) dst[(received + i) % capacity] = src[i]!;
       }
+      for (let i = Math.max(0, n - capacity); i < n; i++) filledRing[(received + i) % capacity] = filled[i]!;
       received += n;
     },
     epochAt(cueSample) {
@@ -173,13 +210,16 @@ export function createPreprocessStream(spec: PreprocessSpec, window: EpochWindow
         for (let i = 0; i < length; i++) out[i] = r[(start + i) % capacity]!;
         return out;
       });
-      return { kind: 'filtered-epoch', data, cueSample };
+      let filledSamples = 0;
+      for (let t = Math.max(0, start - lookBack, received - capacity); t < start + length; t++) filledSamples += filledRing[t % capacity]!;
+      return { kind: 'filtered-epoch', data, cueSample, filledSamples };
     },
   };
 }
 
 /**
- * Offline form of the live path: the whole run as one chunk through a fresh stream.
+ * Offline form of the live path: the whole run as one chunk through a fresh stream (missing
+ * samples held as in the stream).
  * @param data [channel][sample] raw µV in the spec's channel order (not modified)
  * @returns [channel][sample] filtered and re-referenced µV
  */
@@ -189,8 +229,9 @@ export function preprocessContinuous(spec: PreprocessSpec, data: ChannelMajor): 
   const n = data[0]?.length ?? 0;
   if (n === 0) return data.map(() => new Float64Array(0));
   const sos = cascadeOf(spec);
-  const state = steadyStateFor(sos, Float64Array.from(data, (c) => c[0]!));
-  const y = sosfiltChunk(sos, data, state);
+  const held = holdMissing(data, new Float64Array(channels).fill(NaN));
+  const state = steadyStateFor(sos, Float64Array.from(held, (c) => c[0]!));
+  const y = sosfiltChunk(sos, held, state);
   return spec.car ? commonAverageReferenceInPlace(y) : y;
 }
 

@@ -159,10 +159,17 @@ export function predictRawEpoch(d: LoadedDecoder, segment: RawSegment): EpochPre
   return toPrediction(d, d.decision(epoch));
 }
 
+/** A stream prediction: the epoch's prediction, its cue and how many samples were filled in. */
+export interface StreamPrediction extends EpochPrediction {
+  cueSample: number;
+  /** Missing samples held over in the epoch or the second before it (online.ts); > 0: flag the trial. */
+  filledSamples: number;
+}
+
 /** A live stream bound to a decoder: DecoderStream plus one-call prediction. */
 export interface DecoderPredictionStream extends DecoderStream {
   /** Prediction for a cue at stream sample `cueSample`, or null until its epoch is complete. */
-  predictAt(cueSample: number): EpochPrediction | null;
+  predictAt(cueSample: number): StreamPrediction | null;
 }
 
 /** Creates the live pre-processing stream for a loaded decoder (online.ts). */
@@ -174,7 +181,7 @@ export function createDecoderStream(d: LoadedDecoder, opts: StreamOptions = {}):
     epochAt: (cue) => stream.epochAt(cue),
     predictAt(cue) {
       const e = stream.epochAt(cue);
-      return e === null ? null : predictFilteredEpoch(d, e);
+      return e === null ? null : { ...predictFilteredEpoch(d, e), cueSample: cue, filledSamples: e.filledSamples };
     },
   };
 }
@@ -188,6 +195,8 @@ export interface PredictedTrial {
   probability: number;
   /** P of each class, by name. */
   probabilities: Record<string, number>;
+  /** Samples filled in for missing data near the epoch (online.ts); > 0 means the trial is suspect. */
+  filledSamples: number;
 }
 
 /** A replay's result: trials in cue order and the accuracy over them. */
@@ -234,7 +243,8 @@ export function predictRecording(decoder: LoadedDecoder, rec: Recording, classes
       const p = stream.predictAt(cue.sample);
       if (p === null) break;
       trials.push({ onsetS: cue.onsetS, trueClass: cue.trueClass, predictedClass: p.predictedClass, probability: p.confidence,
-                    probabilities: { [decoder.classes[0]]: 1 - p.probability, [decoder.classes[1]]: p.probability } });
+                    probabilities: { [decoder.classes[0]]: 1 - p.probability, [decoder.classes[1]]: p.probability },
+                    filledSamples: p.filledSamples });
       next++;
     }
   }

@@ -26,7 +26,7 @@ describe.each(['covariance', 'component-tf'] as const)('the %s artifact', (recip
 
   it('round-trips through JSON text and predicts exactly as the fitted pipeline', () => {
     const decoder = loadDecoder(JSON.parse(serialiseArtifact(artifact)) as unknown);
-    const ours = Float64Array.from(test, (data, i) => predictFilteredEpoch(decoder, { kind: 'filtered-epoch', data, cueSample: i }).probability);
+    const ours = Float64Array.from(test, (data, i) => predictFilteredEpoch(decoder, { kind: 'filtered-epoch', data, cueSample: i, filledSamples: 0 }).probability);
     // Source: invariant (predict.ts recomputes the pipeline's arithmetic from the artifact); tolerance 1e-12 per the brief.
     expectAllClose(ours, fp.predictProba(test), { rtol: 0, atol: 1e-12 });
     // Common practice: the check is only meaningful for a decoder that is not constant.

@@ -19,7 +19,7 @@ describe.each(['covariance', 'component-tf'] as const)('the %s decoder online', 
   const offline = epochRecording(preprocessRecording(decoder.preprocess, rec), { classes: ['left', 'right'] },
                                  decoder.window.tminS, decoder.window.tmaxS);
   const cues = Array.from(offline.onsetsS, (s) => Math.round(s * fs));
-  const offlineP = Float64Array.from(offline.epochs, (data, i) => predictFilteredEpoch(decoder, { kind: 'filtered-epoch', data, cueSample: cues[i]! }).probability);
+  const offlineP = Float64Array.from(offline.epochs, (data, i) => predictFilteredEpoch(decoder, { kind: 'filtered-epoch', data, cueSample: cues[i]!, filledSamples: 0 }).probability);
 
   it('gives the offline probabilities when fed in random chunks, empty and one-sample chunks included', () => {
     const rng = createRng(recipe === 'covariance' ? 1 : 2);
@@ -64,7 +64,7 @@ describe.each(['covariance', 'component-tf'] as const)('the %s decoder online', 
   });
 
   it('refuses a raw segment where a filtered epoch is expected, and the reverse', () => {
-    const epoch = { kind: 'filtered-epoch' as const, data: offline.epochs[0]!, cueSample: cues[0]! };
+    const epoch = { kind: 'filtered-epoch' as const, data: offline.epochs[0]!, cueSample: cues[0]!, filledSamples: 0 };
     const raw: RawSegment = { kind: 'raw-segment', data: offline.epochs[0]!, cueIndex: 0 };
     // Source: predict.ts (the kind tag makes the filtered-vs-raw distinction explicit).
     expect(() => predictFilteredEpoch(decoder, raw as never)).toThrow(ParamError);
@@ -73,6 +73,27 @@ describe.each(['covariance', 'component-tf'] as const)('the %s decoder online', 
 });
 
 describe('the decoder stream', () => {
+  it('holds missing samples the same way live and offline, and counts them for the epochs they touch', () => {
+    const decoder = loadDecoder(fittedDecoder('component-tf').artifact);
+    const rec = syntheticRecording({ seed: 13, trials: 6 });
+    const fs = rec.sampleRateHz;
+    const cue = Math.round(rec.annotations[3]!.onsetS * fs);
+    const gapStart = cue + decoder.epochOffset - 60;
+    rec.data[4]!.fill(NaN, gapStart, gapStart + 40); // a dropped stretch on one channel, 60 samples before the epoch
+    const offline = epochRecording(preprocessRecording(decoder.preprocess, rec), { classes: ['left', 'right'] }, decoder.window.tminS, decoder.window.tmaxS);
+    const stream = createDecoderStream(decoder, { historyS: 60 });
+    stream.push(channelsInOrder(rec, decoder.preprocess.channelNames));
+    const cues = Array.from(offline.onsetsS, (s) => Math.round(s * fs));
+    const online = cues.map((c) => stream.predictAt(c)!);
+    const offP = offline.epochs.map((data, i) => predictFilteredEpoch(decoder, { kind: 'filtered-epoch', data, cueSample: cues[i]!, filledSamples: 0 }).probability);
+    // Source: online.ts (missing samples held before filtering, identically live and offline).
+    expectAllClose(online.map((p) => p.probability), offP, { rtol: 0, atol: 1e-9 });
+    expect(online.every((p) => Number.isFinite(p.probability))).toBe(true);
+    // Same source: the 40 filled samples lie within the second before cue 3's epoch; other epochs are untouched.
+    expect(online.map((p) => p.filledSamples)).toEqual(cues.map((c) => (c === cue ? 40 : 0)));
+  });
+
+
   it('returns null until the last sample of the epoch has arrived, then the epoch', () => {
     const decoder = loadDecoder(fittedDecoder('covariance').artifact);
     const c = decoder.preprocess.channelNames.length;
