@@ -75,7 +75,7 @@ describe('aftercue train and predict on real recordings', () => {
     const dir = mkdtempSync(join(tmpdir(), 'aftercue-train-real-'));
     const model = join(dir, 'MODEL.json'), reportFile = join(dir, 'REPORT.json');
     const t = cli('train', '--edf', eegmmidbPath('S007R04.edf'), eegmmidbPath('S007R08.edf'), '--classes', 'T1,T2', '--tmin', '0.5', '--tmax', '2.5',
-                  '--out', model, '--report', reportFile, '--recipe', 'covariance', '--folds', '3', '--inner', '3', '--components', '8', '--no-baselines');
+                  '--out', model, '--report', reportFile, '--recipe', 'covariance', '--folds', '3', '--inner', '3', '--no-baselines');
     expect(t.status, t.stderr).toBe(0);
     const report = JSON.parse(readFileSync(reportFile, 'utf8')) as TrainingReport;
     // Source: ../shared/data/eegmmidb/README.md (15 task cues per run) and train.ts (eegmmidb citation).
