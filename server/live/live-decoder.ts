@@ -89,7 +89,8 @@ export function liveDecoderFromLoaded(d: LoadedDecoder): LiveDecoder {
   const timed: LoadedDecoder = { ...d, decision: (x) => { const z = d.decision(x); onDecision?.(); return z; } };
   const score = (data: ChannelMajor, cueSample: number, onFeatures?: () => void): Float64Array => {
     onDecision = onFeatures;
-    const p = predictFilteredEpoch(timed, { kind: 'filtered-epoch', data, cueSample }).probability;
+    // filledSamples only informs flagging; the engine flags gap- and NaN-filled trials itself.
+    const p = predictFilteredEpoch(timed, { kind: 'filtered-epoch', data, cueSample, filledSamples: 0 }).probability;
     onDecision = undefined;
     // Probabilities in class order: P(classes[0]) = 1 - P(classes[1]).
     return Float64Array.of(1 - p, p);
