@@ -236,17 +236,28 @@ export function preprocessContinuous(spec: PreprocessSpec, data: ChannelMajor): 
 }
 
 /**
+ * For each name in `wanted`, the index of the same electrode in `available` (matched by canonical
+ * 10-10 name), e.g. to put a feed's chunks in a decoder's channel order:
+ * `const idx = channelOrder(feed.channelNames, decoder.preprocess.channelNames);
+ *  stream.push(Array.from(idx, (i) => chunk[i]!))`.
+ * @throws ShapeError naming the first channel `available` lacks
+ */
+export function channelOrder(available: readonly string[], wanted: readonly string[]): Int32Array {
+  const index = new Map(available.map((n, i) => [normaliseChannelName(n), i]));
+  return Int32Array.from(wanted, (name) => {
+    const i = index.get(normaliseChannelName(name));
+    if (i === undefined) throw new ShapeError('channelNames', `no channel '${name}' among [${available.join(', ')}]`);
+    return i;
+  });
+}
+
+/**
  * The recording's channels in the order `names` asks for, matched by canonical 10-10 name
  * (`normaliseChannelName`, so 'C3..' matches 'C3'). The arrays are shared, not copied.
  * @throws ShapeError naming the first missing channel
  */
 export function channelsInOrder(rec: Recording, names: readonly string[]): ChannelMajor {
-  const index = new Map(rec.channelNames.map((n, i) => [normaliseChannelName(n), i]));
-  return names.map((name) => {
-    const i = index.get(normaliseChannelName(name));
-    if (i === undefined) throw new ShapeError('channelNames', `the recording has no channel '${name}'`);
-    return rec.data[i]!;
-  });
+  return Array.from(channelOrder(rec.channelNames, names), (i) => rec.data[i]!);
 }
 
 /**

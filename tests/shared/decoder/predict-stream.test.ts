@@ -1,11 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { epochRecording } from '../../../shared/decoder/epochs';
-import { channelsInOrder, preprocessRecording } from '../../../shared/decoder/online';
+import { channelOrder, channelsInOrder, preprocessRecording } from '../../../shared/decoder/online';
 import {
   createDecoderStream, loadDecoder, predictFilteredEpoch, predictRawEpoch, predictRecording, type RawSegment,
 } from '../../../shared/decoder/predict';
 import { createRng } from '../../../shared/linalg/random';
-import { ParamError } from '../../../shared/types';
+import { ParamError, ShapeError } from '../../../shared/types';
 import { expectAllClose } from '../../helpers/all-close';
 import { fittedDecoder } from '../../fixtures/decoder/fitted';
 import { syntheticRecording } from '../../fixtures/decoder/synthetic';
@@ -108,5 +108,13 @@ describe('the decoder stream', () => {
     stream.push(Array.from({ length: c }, () => new Float64Array(2000)));
     // Same source: older than the history held is an error, not a silent wrong epoch.
     expect(() => stream.epochAt(cue)).toThrow(ParamError);
+  });
+});
+
+describe('channelOrder', () => {
+  it('matches a feed\'s labels to the decoder\'s channels by 10-10 name', () => {
+    // Source: ../shared/data/eegmmidb/README.md labels ('C3..', 'Fc5.') and shared/montage normaliseChannelName.
+    expect(Array.from(channelOrder(['C3..', 'Fc5.', 'Cz..'], ['FC5', 'Cz', 'C3']))).toEqual([1, 2, 0]);
+    expect(() => channelOrder(['C3..'], ['C4'])).toThrow(ShapeError);
   });
 });
