@@ -112,8 +112,10 @@ function covarianceDecision(m: CovarianceModel): (x: ChannelMajor) => number {
   const r = p.length;
   const c = p[0]?.length ?? 0;
   const f = new Float64Array(r * r), cov = new Float64Array(c * c), s = new Float64Array(r * r);
+  let scratch = new Float64Array(0);
   return (x) => {
-    covarianceFeature(p, centre, m.scale, x, f, 0, cov, s);
+    if (scratch.length < c * (x[0]?.length ?? 0)) scratch = new Float64Array(c * x[0]!.length);
+    covarianceFeature(p, centre, m.scale, x, f, 0, cov, s, scratch);
     let acc = 0;
     for (let j = 0; j < r * r; j++) acc += f[j]! * w[j]!;
     return m.bias + acc;

@@ -32,26 +32,47 @@ export interface FittedWhitenedCovariance extends Fitted<Epochs, MatrixTrials> {
   readonly scale: number;
 }
 
-/** Mean-removed spatial covariance X Xᵀ / T of one trial, C×C row-major. */
-export function trialCovariance(x: Float64Array[], out?: Float64Array): Float64Array {
+/**
+ * Mean-removed spatial covariance X Xᵀ / T of one trial, C×C row-major. Four channel pairs per
+ * pass over the samples (the centred row of channel a is read once for b..b+3), which is about
+ * three times faster than one pair per pass; predict and fit share this function.
+ * @param out optional C×C destination; @param scratch optional C·T buffer for the centred samples
+ */
+export function trialCovariance(x: Float64Array[], out?: Float64Array, scratch?: Float64Array): Float64Array {
   const c = x.length;
-  const t = x[0]?.length ?? 0;
-  if (t < 2) throw new ShapeError('x', `expected at least 2 samples per channel, got ${t}`);
+  const n = x[0]?.length ?? 0;
+  if (n < 2) throw new ShapeError('x', `expected at least 2 samples per channel, got ${n}`);
   const cov = out ?? new Float64Array(c * c);
-  const centred = x.map((row) => {
-    let m = 0;
-    for (let k = 0; k < t; k++) m += row[k]!;
-    m /= t;
-    return row.map((v) => v - m);
-  });
+  const buf = scratch !== undefined && scratch.length >= c * n ? scratch : new Float64Array(c * n);
   for (let a = 0; a < c; a++) {
-    const xa = centred[a]!;
-    for (let b = a; b < c; b++) {
-      const xb = centred[b]!;
+    const row = x[a]!;
+    if (row.length !== n) throw new ShapeError(`x[${a}]`, `expected ${n} samples, got ${row.length}`);
+    let m = 0;
+    for (let k = 0; k < n; k++) m += row[k]!;
+    m /= n;
+    const o = a * n;
+    for (let k = 0; k < n; k++) buf[o + k] = row[k]! - m;
+  }
+  for (let a = 0; a < c; a++) {
+    const oa = a * n;
+    let b = a;
+    for (; b + 3 < c; b += 4) {
+      const o0 = b * n, o1 = o0 + n, o2 = o1 + n, o3 = o2 + n;
+      let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+      for (let k = 0; k < n; k++) {
+        const v = buf[oa + k]!;
+        s0 += v * buf[o0 + k]!; s1 += v * buf[o1 + k]!; s2 += v * buf[o2 + k]!; s3 += v * buf[o3 + k]!;
+      }
+      cov[a * c + b] = cov[b * c + a] = s0 / n;
+      cov[a * c + b + 1] = cov[(b + 1) * c + a] = s1 / n;
+      cov[a * c + b + 2] = cov[(b + 2) * c + a] = s2 / n;
+      cov[a * c + b + 3] = cov[(b + 3) * c + a] = s3 / n;
+    }
+    for (; b < c; b++) {
+      const ob = b * n;
       let s = 0;
-      for (let k = 0; k < t; k++) s += xa[k]! * xb[k]!;
-      cov[a * c + b] = s / t;
-      cov[b * c + a] = s / t;
+      for (let k = 0; k < n; k++) s += buf[oa + k]! * buf[ob + k]!;
+      cov[a * c + b] = cov[b * c + a] = s / n;
     }
   }
   return cov;
@@ -87,10 +108,10 @@ function congruence(p: readonly Float64Array[], cov: Float64Array, c: number, ou
  * decoder (predict.ts) both call this, so they compute the same numbers.
  */
 export function covarianceFeature(whitening: readonly Float64Array[], centre: Float64Array, scale: number, trial: Float64Array[],
-                                  out: Float64Array, offset: number, cov: Float64Array, s: Float64Array): void {
+                                  out: Float64Array, offset: number, cov: Float64Array, s: Float64Array, scratch?: Float64Array): void {
   const r = whitening.length;
   const c = trial.length;
-  congruence(whitening, trialCovariance(trial, cov), c, s);
+  congruence(whitening, trialCovariance(trial, cov, scratch), c, s);
   for (let j = 0; j < r * r; j++) out[offset + j] = (s[j]! - centre[j]!) / scale;
 }
 
