@@ -118,7 +118,7 @@ async function main(): Promise<void> {
     const lagSamples: Array<{ t: number; lags: (number | null)[] }> = [];
     const loopDelay = monitorEventLoopDelay({ resolution: 10 });
     const gcPauses: number[] = [];
-    const gcObserver = new PerformanceObserver((list) => { if (started) for (const e of list.getEntries()) gcPauses.push(e.duration); });
+    const gcObserver = new PerformanceObserver((list) => { if (started) for (const e of list.getEntries()) { gcPauses.push(e.duration); if (process.env.BENCH_DEBUG && e.duration > 5) process.stderr.write(`gc ${JSON.stringify((e as unknown as { detail: unknown }).detail)} ${e.duration.toFixed(1)} ms heap ${Math.round(process.memoryUsage().heapUsed / 1e6)} MB\n`); } });
     gcObserver.observe({ entryTypes: ['gc'] });
     let cpu0 = process.cpuUsage();
     let wall0 = Date.now();

@@ -95,6 +95,7 @@ export function liveDecoderFromLoaded(d: LoadedDecoder): LiveDecoder {
     // Probabilities in class order: P(classes[0]) = 1 - P(classes[1]).
     return Float64Array.of(1 - p, p);
   };
+  warmUp(score, spec.channelNames.length, epoch.length);
   return {
     classes: [...d.classes],
     channelNames: [...spec.channelNames],
@@ -114,3 +115,17 @@ export function liveDecoderFromLoaded(d: LoadedDecoder): LiveDecoder {
     },
   };
 }
+
+/** Predictions run at load so that the first cue of a session does not pay for V8's compilation. */
+const WARM_UP_RUNS = 12;
+
+/**
+ * Scores a deterministic, non-constant epoch a few times: the first calls of the decision
+ * function run unoptimised and trigger V8's compiler, which would otherwise land on the first
+ * trials' latency. The results are discarded; nothing is stored in the decoder.
+ */
+function warmUp(score: (data: ChannelMajor, cueSample: number) => Float64Array, channels: number, length: number): void {
+  const data = Array.from({ length: channels }, (_, c) => Float64Array.from({ length }, (_v, k) => Math.sin(0.05 * k * (1 + c / channels) + c)));
+  for (let i = 0; i < WARM_UP_RUNS; i++) score(data, 0);
+}
+
