@@ -5,8 +5,13 @@
  */
 import { ParamError, ShapeError } from '../types';
 
-/** Shape of one matrix block of a trial's features. */
-export interface BlockShape { rows: number; cols: number }
+/**
+ * Shape of one matrix block of a trial's features. `symmetric`: the block is square and every
+ * trial's matrix is symmetric (e.g. a spatial covariance), so the weight stays symmetric (its
+ * gradient Σ_i r_i X_ik is symmetric) and the solver's proximal step is eigenvalue
+ * soft-thresholding (tracenorm-prox.ts) instead of an SVD; checked by {@link blockLayout}.
+ */
+export interface BlockShape { rows: number; cols: number; symmetric?: boolean }
 
 /**
  * Matrix-valued features of n trials: each trial has one matrix per block (for example one
@@ -50,7 +55,24 @@ export function blockLayout(features: MatrixFeatures): BlockLayout {
       throw new ParamError('features.x', `non-finite value ${x[j]} at trial ${Math.floor(j / dim)}, element ${j % dim}`);
     }
   }
+  blocks.forEach((b, k) => { if (b.symmetric === true) checkSymmetric(x, nTrials, dim, offsets[k]!, b, k); });
   return { offsets, sizes, dim };
+}
+
+/** A block flagged symmetric must be square with symmetric matrices (to relative 1e-10) in every trial. */
+function checkSymmetric(x: Float64Array, nTrials: number, dim: number, off: number, b: BlockShape, k: number): void {
+  if (b.rows !== b.cols) throw new ShapeError(`features.blocks[${k}]`, `a symmetric block must be square, got ${b.rows}×${b.cols}`);
+  const n = b.rows;
+  for (let i = 0; i < nTrials; i++) {
+    const base = i * dim + off;
+    for (let r = 1; r < n; r++) for (let c = 0; c < r; c++) {
+      const u = x[base + r * n + c]!;
+      const v = x[base + c * n + r]!;
+      if (Math.abs(u - v) > 1e-10 * (Math.abs(u) + Math.abs(v))) {
+        throw new ShapeError('features.x', `block ${k} is flagged symmetric, but trial ${i} has [${r}][${c}] = ${u} and [${c}][${r}] = ${v}`);
+      }
+    }
+  }
 }
 
 /** Checks 0/1 labels against the trial count; returns the number of ones. */

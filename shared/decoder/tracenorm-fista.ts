@@ -13,9 +13,13 @@
  *   t_{k+1} = (1 + sqrt(1 + 4(L_{k+1}/L_k)t_k²))/2 (Scheinberg, Goldfarb & Bai 2014, Found.
  *   Comput. Math. 14:389–417). Trying a smaller L lets the step follow the actual curvature
  *   Σ p_i(1 − p_i), which falls far below ¼ as the fit becomes confident.
+ * - Blocks flagged symmetric (tracenorm-data.ts: square, every trial's matrix symmetric) keep a
+ *   symmetric weight, and their prox is eigenvalue soft-thresholding computed from the eigenpairs
+ *   beyond the threshold only (tracenorm-prox.ts symmetricSvtInto); other blocks use a
+ *   warm-started Jacobi SVD.
  * - Screening (exact, no approximation): a block whose extrapolated point y_k is zero stays zero
  *   after the prox iff ‖∇_k f(y)‖₂ ≤ λ w_k. That is proved without an SVD by a spectral-norm upper
- *   bound (spectralNormUpperBound). Between such proofs the block's gradient is not even formed:
+ *   bound (spectralNormUpperBound), or for a symmetric block by its eigenvalues. Between such proofs the block's gradient is not even formed:
  *   ‖∇_k f(y)‖₂ ≤ B_k + ‖X_k‖_F ‖r − r_k‖₂, where B_k is the bound proved at residuals r_k
  *   (r = σ(margins) − labels; ∇_k f = Σ_i r_i X_ik is linear in r, and ‖Σ_i δ_i X_ik‖₂ ≤
  *   ‖X_k‖_F ‖δ‖₂ by Cauchy–Schwarz). Margins skip inactive blocks (exact).
@@ -27,10 +31,12 @@
  *   (weights and bias together), returning the better of the two; otherwise stop at maxIter
  *   with converged = false.
  */
-import { createSvdWorkspace, svd } from '../linalg/svd';
+import { createPartialEigWorkspace, type PartialEigWorkspace } from '../linalg/symmetric-eig-partial';
+import { createSvdWorkspace, svd, type SvdWorkspace } from '../linalg/svd';
 import { ParamError } from '../types';
 import { type BlockLayout, type MatrixFeatures, logisticBregman, logisticLoss, margins } from './tracenorm-data';
-import { spectralNormUpperBound, svtInto } from './tracenorm-prox';
+import { addSymmetricMargins, packSymmetricBlocks, symmetricGradient } from './tracenorm-packed';
+import { spectralNormUpperBound, svtInto, symmetricEigenvalues, symmetricSpectralNorm, symmetricSvtInto } from './tracenorm-prox';
 
 const L_DOWN = 0.8;
 const L_UP = 2;
@@ -78,8 +84,14 @@ export function runFista(features: MatrixFeatures, labels: Uint8Array, layout: B
   const nb = blocks.length;
   const { lambda, alpha, tol, blockWeights } = s;
   const work = new Float64Array(2 * blocks.reduce((m, bl) => Math.max(m, Math.min(bl.rows, bl.cols) ** 2), 0));
-  const svdWork = blocks.map((bl) => createSvdWorkspace(bl.rows, bl.cols));
+  const svdWork: Array<SvdWorkspace | null> = blocks.map((bl) => (bl.symmetric === true ? null : createSvdWorkspace(bl.rows, bl.cols)));
+  const eigWork: Array<PartialEigWorkspace | null> = blocks.map((bl) => (bl.symmetric === true ? createPartialEigWorkspace(bl.rows) : null));
   const warm = new Uint8Array(nb); // 1 once a block's workspace holds a rotation to start from
+  // Symmetric blocks: margins and gradients from packed lower triangles (tracenorm-packed.ts).
+  const packed = packSymmetricBlocks(x, n, layout, blocks);
+  const sym = packed.side;
+  const hasSym = sym.some((v) => v > 0);
+  const actOther = new Uint8Array(nb);
   const counters = { svd: 0, skippedSvd: 0, skippedGradient: 0, prox: 0 };
 
   // Screening state: ‖X_k‖_F, and per block the last proved bound B_k at residuals r_k.
@@ -115,7 +127,7 @@ export function runFista(features: MatrixFeatures, labels: Uint8Array, layout: B
     L *= L_DOWN;
     for (;;) {
       proxStep(L, gb);
-      margins(x, n, layout, zc.w, zc.b, zc.act, zc.z);
+      allMargins(zc);
       // Backtracking test f(z) ≤ Q_L(z, y) (Beck & Teboulle 2009, eq. 2.5) in the cancellation-free
       // form f(z) − f(y) − ⟨∇f(y), z − y⟩ ≤ (L/2)‖z − y‖², the left side being
       // Σ_i D_logistic(margin_i(y), Δmargin_i) + (α/2)‖Δw‖².
@@ -174,13 +186,31 @@ export function runFista(features: MatrixFeatures, labels: Uint8Array, layout: B
     xc.b = s.start.b;
     for (let k = 0; k < nb; k++) {
       const o = offsets[k]!;
+      const side = sym[k]!;
+      // A symmetric block's start is made symmetric, (W + Wᵀ)/2 (a no-op for a model of this solver).
+      for (let a = 0; a < side; a++) for (let c = 0; c < a; c++) {
+        const m = 0.5 * (xc.w[o + a * side + c]! + xc.w[o + c * side + a]!);
+        xc.w[o + a * side + c] = m;
+        xc.w[o + c * side + a] = m;
+      }
       if (!xc.w.subarray(o, o + sizes[k]!).some((c) => c !== 0)) continue;
-      const d = svd(xc.w.subarray(o, o + sizes[k]!), blocks[k]!.rows, blocks[k]!.cols);
+      const ew = eigWork[k];
+      // Singular values: |eigenvalues| for a symmetric block, else by SVD.
+      const sv = ew ? symmetricEigenvalues(xc.w, o, ew).map(Math.abs) : svd(xc.w.subarray(o, o + sizes[k]!), blocks[k]!.rows, blocks[k]!.cols).s;
+      const top = sv.reduce((a, c) => Math.max(a, c), 0);
       xc.act[k] = 1;
-      xc.nuc[k] = d.s.reduce((a, c) => a + c, 0);
-      xc.rank[k] = d.s.filter((c) => c > 1e-12 * d.s[0]!).length;
+      xc.nuc[k] = sv.reduce((a, c) => a + c, 0);
+      xc.rank[k] = sv.filter((c) => c > 1e-12 * top).length;
     }
-    margins(x, n, layout, xc.w, xc.b, xc.act, xc.z);
+    allMargins(xc);
+  }
+
+  /** p.z = margins of p.w, p.b (symmetric blocks from their packed triangles). */
+  function allMargins(p: Point): void {
+    if (!hasSym) { margins(x, n, layout, p.w, p.b, p.act, p.z); return; }
+    for (let k = 0; k < nb; k++) actOther[k] = sym[k]! > 0 ? 0 : p.act[k]!;
+    margins(x, n, layout, p.w, p.b, actOther, p.z);
+    addSymmetricMargins(packed, layout, p.w, p.act, n, p.z);
   }
 
   function objective(p: Point, smooth: number): number {
@@ -204,16 +234,25 @@ export function runFista(features: MatrixFeatures, labels: Uint8Array, layout: B
       const end = o + sizes[k]!;
       if (status[k] === SKIP) { counters.skippedGradient++; continue; }
       g.fill(0, o, end);
-      for (let i = 0; i < n; i++) {
-        const r = resid[i]!;
-        if (r === 0) continue;
-        const base = i * dim;
-        for (let j = o; j < end; j++) g[j]! += r * x[base + j]!;
+      const side = sym[k]!;
+      if (side > 0) { // symmetric: packed lower triangle, mirrored (exactly symmetric gradient)
+        symmetricGradient(packed, k, o, resid, g);
+      } else {
+        for (let i = 0; i < n; i++) {
+          const r = resid[i]!;
+          if (r === 0) continue;
+          const base = i * dim;
+          for (let j = o; j < end; j++) g[j]! += r * x[base + j]!;
+        }
       }
       if (alpha !== 0) for (let j = o; j < end; j++) g[j]! += alpha * y.w[j]!;
       if (lambda === 0 || y.act[k] === 1) continue;
       const thr = lambda * blockWeights[k]!;
-      const bound = spectralNormUpperBound(g, o, blocks[k]!.rows, blocks[k]!.cols, thr, work);
+      const ew = eigWork[k];
+      // Symmetric block: ‖G‖₂ = max |eigenvalue| (cheaper than the bound; 1e-12 relative margin
+      // for the eigenvalues' rounding, ≤ a small multiple of ε‖G‖).
+      const bound = ew ? symmetricSpectralNorm(g, o, ew) * (1 + 1e-12)
+        : spectralNormUpperBound(g, o, blocks[k]!.rows, blocks[k]!.cols, thr, work);
       if (bound <= thr) {
         status[k] = ZERO;
         proved[k] = bound;
@@ -244,13 +283,20 @@ export function runFista(features: MatrixFeatures, labels: Uint8Array, layout: B
       }
       counters.svd++;
       const tau = (lambda * blockWeights[k]!) / step;
-      const ws = svdWork[k]!;
-      const rank = svtInto(v, o, tau, zc.w, o, ws, warm[k] === 1);
-      warm[k] = 1;
+      const ew = eigWork[k];
+      let nuc = 0;
+      let rank: number;
+      if (ew) {
+        rank = symmetricSvtInto(v, o, tau, zc.w, o, ew);
+        for (let j = 0; j < rank; j++) nuc += Math.abs(ew.selected[j]!) - tau;
+      } else {
+        const ws = svdWork[k]!;
+        rank = svtInto(v, o, tau, zc.w, o, ws, warm[k] === 1);
+        warm[k] = 1;
+        for (let j = 0; j < rank; j++) nuc += ws.s[j]! - tau;
+      }
       zc.rank[k] = rank;
       zc.act[k] = rank > 0 ? 1 : 0;
-      let nuc = 0;
-      for (let j = 0; j < rank; j++) nuc += ws.s[j]! - tau;
       zc.nuc[k] = nuc;
     }
   }

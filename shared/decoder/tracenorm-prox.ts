@@ -1,8 +1,15 @@
 /**
  * Proximal operator of the (weighted) trace norm: singular value soft-thresholding (SVT),
  * prox_{τ‖·‖_*}(V) = U diag(max(σ_i − τ, 0)) Vᵀ (Cai, Candès & Shen 2010, SIAM J. Optim.
- * 20(4):1956–1982, Theorem 2.1), plus the certificate that lets a zero block skip its SVD.
+ * 20(4):1956–1982, Theorem 2.1), its symmetric form (eigenvalue soft-thresholding), plus the
+ * certificate that lets a zero block skip its SVD.
+ *
+ * Symmetric form: for symmetric M = Σ_j μ_j v_j v_jᵀ the singular values are |μ_j| with
+ * u_j = v_j and right vectors sign(μ_j) v_j, so SVT keeps the eigenvectors and shrinks the
+ * eigenvalues towards zero: prox(M) = Σ_j sign(μ_j) max(|μ_j| − τ, 0) v_j v_jᵀ, symmetric again.
+ * Only the eigenpairs with |μ_j| > τ are needed (symmetric-eig-partial.ts).
  */
+import { type PartialEigWorkspace, createPartialEigWorkspace, eigenpairsBeyond } from '../linalg/symmetric-eig-partial';
 import { type SvdWorkspace, createSvdWorkspace, svdInto } from '../linalg/svd';
 import { ParamError, ShapeError } from '../types';
 
@@ -56,6 +63,61 @@ export function svtInto(m: Float64Array, src: number, tau: number, dst: Float64A
     }
   }
   return rank;
+}
+
+/**
+ * Eigenvalue soft-thresholding (module comment): the minimiser of τ‖W‖_* + ½‖W − M‖_F² for
+ * symmetric M, equal to {@link svt} of M.
+ * @param m n×n row-major, symmetric (only the lower triangle is read; not modified)
+ * @returns the result (exactly symmetric), its rank and its non-zero eigenvalues
+ *   sign(μ)(|μ| − τ) in ascending order of μ
+ */
+export function symmetricSvt(m: Float64Array, n: number, tau: number): { out: Float64Array; rank: number; eigenvalues: Float64Array } {
+  if (!Number.isInteger(n) || n < 1 || m.length !== n * n) throw new ShapeError('m', `expected ${n}×${n} = ${n * n} values, got ${m.length}`);
+  if (!(tau >= 0) || !Number.isFinite(tau)) throw new ParamError('tau', `expected a finite threshold ≥ 0, got ${tau}`);
+  m.forEach((x, i) => {
+    if (!Number.isFinite(x)) throw new ParamError('m', `entry ${i} is ${x}`);
+  });
+  const out = new Float64Array(n * n);
+  const ws = createPartialEigWorkspace(n);
+  const rank = symmetricSvtInto(m, 0, tau, out, 0, ws);
+  return { out, rank, eigenvalues: ws.selected.slice(0, rank).map((mu) => Math.sign(mu) * (Math.abs(mu) - tau)) };
+}
+
+/**
+ * Symmetric SVT of the n×n block m[src ..] (n from the workspace, lower triangle read) written
+ * to dst[dstOff ..] as an exactly symmetric matrix. Afterwards ws.selected[0 .. rank) holds the
+ * input's eigenvalues with |μ| > τ; the result's nuclear norm is Σ (|μ| − τ) over them.
+ * @returns the rank of the result
+ */
+export function symmetricSvtInto(m: Float64Array, src: number, tau: number, dst: Float64Array, dstOff: number,
+                                 ws: PartialEigWorkspace): number {
+  const rank = eigenpairsBeyond(m, src, tau, ws);
+  const { n, selected, vectors } = ws;
+  for (let a = 0; a < n; a++) {
+    for (let b = 0; b <= a; b++) {
+      let acc = 0;
+      for (let j = 0; j < rank; j++) {
+        const mu = selected[j]!;
+        acc += (mu > 0 ? mu - tau : mu + tau) * vectors[j * n + a]! * vectors[j * n + b]!;
+      }
+      dst[dstOff + a * n + b] = acc;
+      dst[dstOff + b * n + a] = acc;
+    }
+  }
+  return rank;
+}
+
+/** ‖M‖₂ = max |μ| of the symmetric n×n block m[src ..] (lower triangle read). */
+export function symmetricSpectralNorm(m: Float64Array, src: number, ws: PartialEigWorkspace): number {
+  const v = symmetricEigenvalues(m, src, ws);
+  return Math.max(Math.abs(v[0]!), Math.abs(v[ws.n - 1]!));
+}
+
+/** All eigenvalues of the symmetric n×n block m[src ..], ascending (in ws.values); ‖M‖₂ = max(|first|, |last|). */
+export function symmetricEigenvalues(m: Float64Array, src: number, ws: PartialEigWorkspace): Float64Array {
+  eigenpairsBeyond(m, src, Infinity, ws);
+  return ws.values;
 }
 
 /**

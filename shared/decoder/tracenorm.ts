@@ -10,16 +10,18 @@
  * Solved by monotone FISTA with backtracking and singular value soft-thresholding
  * (tracenorm-fista.ts states the algorithm and stopping rule).
  */
+import { createPartialEigWorkspace } from '../linalg/symmetric-eig-partial';
 import { svd } from '../linalg/svd';
 import { ParamError, ShapeError } from '../types';
 import {
   type BlockShape, type MatrixFeatures, blockLayout, checkBlockWeights, checkLabels, lipschitzBound, margins, sigmoid,
 } from './tracenorm-data';
 import { runFista } from './tracenorm-fista';
+import { symmetricSpectralNorm } from './tracenorm-prox';
 
 export type { BlockShape, MatrixFeatures } from './tracenorm-data';
 export { lipschitzBound } from './tracenorm-data';
-export { svt, type SvtResult } from './tracenorm-prox';
+export { svt, symmetricSvt, type SvtResult } from './tracenorm-prox';
 
 /** Hyperparameters of one fit. */
 export interface TraceNormParams {
@@ -75,7 +77,12 @@ export function lambdaMax(features: MatrixFeatures, labels: Uint8Array, blockWei
   }
   let best = 0;
   features.blocks.forEach((b, k) => {
-    const s = svd(g.subarray(offsets[k]!, offsets[k]! + sizes[k]!), b.rows, b.cols).s[0]!;
+    let s: number;
+    if (b.symmetric === true) { // ‖G‖₂ = max |eigenvalue| of the symmetric gradient
+      s = symmetricSpectralNorm(g, offsets[k]!, createPartialEigWorkspace(b.rows));
+    } else {
+      s = svd(g.subarray(offsets[k]!, offsets[k]! + sizes[k]!), b.rows, b.cols).s[0]!;
+    }
     best = Math.max(best, s / bw[k]!);
   });
   return best;
@@ -117,7 +124,7 @@ export function fitTraceNorm(features: MatrixFeatures, labels: Uint8Array, param
   }
   const activeBlocks = weights.flatMap((wk, k) => (wk.some((x) => x !== 0) ? [k] : []));
   return {
-    blocks: features.blocks.map((b) => ({ rows: b.rows, cols: b.cols })),
+    blocks: features.blocks.map((b) => (b.symmetric === true ? { rows: b.rows, cols: b.cols, symmetric: true } : { rows: b.rows, cols: b.cols })),
     weights, bias: r.b, lambda, alpha, blockWeights: Float64Array.from(bw),
     iterations: r.iterations, converged: r.converged, objective: r.objective,
     ranks, activeBlocks, lipschitz: r.lipschitz,

@@ -124,7 +124,7 @@ function makeFitted(whitening: Float64Array[], dewhitening: Float64Array[], cent
     const cov = new Float64Array(c * c);
     const s = new Float64Array(r * r);
     x.forEach((trial, i) => covarianceFeature(whitening, centre, scale, trial, out, i * r * r, cov, s));
-    return { features: { nTrials: x.length, blocks: [{ rows: r, cols: r }], x: out }, blockWeights: Float64Array.of(1) };
+    return { features: { nTrials: x.length, blocks: [{ rows: r, cols: r, symmetric: true }], x: out }, blockWeights: Float64Array.of(1) };
   };
   return {
     kind: 'whitened-covariance', whitening, dewhitening, centre, scale, transform,
