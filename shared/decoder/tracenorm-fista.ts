@@ -36,6 +36,7 @@ import { createSvdWorkspace, svd, type SvdWorkspace } from '../linalg/svd';
 import { ParamError } from '../types';
 import { type BlockLayout, type MatrixFeatures, logisticBregman, logisticLoss, margins } from './tracenorm-data';
 import { addSymmetricMargins, packSymmetricBlocks, symmetricGradient } from './tracenorm-packed';
+import { type Point, blockFrobenius, copyPoint, newPoint, sqNorm, symmetrizeBlock } from './tracenorm-point';
 import { spectralNormUpperBound, svtInto, symmetricEigenvalues, symmetricSpectralNorm, symmetricSvtInto } from './tracenorm-prox';
 
 const L_DOWN = 0.8;
@@ -69,12 +70,6 @@ export interface FistaResult {
   svdCount: number;
   skippedSvdCount: number;
   skippedGradientCount: number;
-}
-
-interface Point { w: Float64Array; b: number; z: Float64Array; act: Uint8Array; rank: Int32Array; nuc: Float64Array }
-
-function newPoint(dim: number, n: number, nb: number): Point {
-  return { w: new Float64Array(dim), b: 0, z: new Float64Array(n), act: new Uint8Array(nb), rank: new Int32Array(nb), nuc: new Float64Array(nb) };
 }
 
 /** Runs MFISTA (see module comment) on validated inputs. */
@@ -186,13 +181,7 @@ export function runFista(features: MatrixFeatures, labels: Uint8Array, layout: B
     xc.b = s.start.b;
     for (let k = 0; k < nb; k++) {
       const o = offsets[k]!;
-      const side = sym[k]!;
-      // A symmetric block's start is made symmetric, (W + Wᵀ)/2 (a no-op for a model of this solver).
-      for (let a = 0; a < side; a++) for (let c = 0; c < a; c++) {
-        const m = 0.5 * (xc.w[o + a * side + c]! + xc.w[o + c * side + a]!);
-        xc.w[o + a * side + c] = m;
-        xc.w[o + c * side + a] = m;
-      }
+      symmetrizeBlock(xc.w, o, sym[k]!); // a symmetric block's start is made symmetric
       if (!xc.w.subarray(o, o + sizes[k]!).some((c) => c !== 0)) continue;
       const ew = eigWork[k];
       // Singular values: |eigenvalues| for a symmetric block, else by SVD.
@@ -310,34 +299,4 @@ export function runFista(features: MatrixFeatures, labels: Uint8Array, layout: B
     if (c1 === 0 && c2 === 0) y.act.set(xNew.act);
     else for (let k = 0; k < nb; k++) y.act[k] = xNew.act[k]! | z.act[k]! | xOld.act[k]!;
   }
-}
-
-/** ‖X_k‖_F over all trials, per block. */
-function blockFrobenius(x: Float64Array, n: number, layout: BlockLayout): Float64Array {
-  const out = new Float64Array(layout.offsets.length);
-  for (let k = 0; k < out.length; k++) {
-    const o = layout.offsets[k]!;
-    let acc = 0;
-    for (let i = 0; i < n; i++) {
-      const base = i * layout.dim + o;
-      for (let j = 0; j < layout.sizes[k]!; j++) acc += x[base + j]! ** 2;
-    }
-    out[k] = Math.sqrt(acc);
-  }
-  return out;
-}
-
-function copyPoint(src: Point, dst: Point): void {
-  dst.w.set(src.w);
-  dst.b = src.b;
-  dst.z.set(src.z);
-  dst.act.set(src.act);
-  dst.rank.set(src.rank);
-  dst.nuc.set(src.nuc);
-}
-
-function sqNorm(a: Float64Array): number {
-  let s = 0;
-  for (let j = 0; j < a.length; j++) s += a[j]! * a[j]!;
-  return s;
 }
