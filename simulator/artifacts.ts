@@ -17,7 +17,7 @@ import {
 import { biquad, biquadProcess, type Biquad } from './processes';
 import type { SimulationProfile } from './profile';
 import { stream, uniform, type Rng } from './random';
-import { PoissonSchedule, type TimedEvent } from './schedule';
+import { PoissonSchedule, type Placement, type TimedEvent } from './schedule';
 import { sparsify, type SparsePattern } from './sources';
 import type { TruthArtifact, TruthDropout, TruthSource } from './truth';
 
@@ -60,7 +60,7 @@ export class ArtifactGenerator {
   private buf = new Float64Array(0);
 
   constructor(private readonly profile: SimulationProfile, private readonly seed: number,
-              electrodes: SpherePoint[], popChannels: number[]) {
+              electrodes: SpherePoint[], popChannels: number[], still?: () => Placement) {
     const fs = profile.sampleRateHz;
     const a = profile.artifacts;
     const s = (t: number) => Math.max(1, Math.round(t * fs));
@@ -93,19 +93,19 @@ export class ArtifactGenerator {
     this.blinks = new PoissonSchedule(seed, 'blinks', a.blinksPerMin, fs, (index, start, rng) => {
       const amplitudeUv = uniform(rng, ...a.blinkAmplitudeUv);
       return { index, startSample: start, endSample: start + s(uniform(rng, ...a.blinkDurationS)), amplitudeUv };
-    });
+    }, still?.());
     this.saccades = new PoissonSchedule(seed, 'saccades', a.saccadesPerMin, fs, (index, start, rng) => {
       const sign = rng.nextFloat() < 0.5 ? -1 : 1;
       const amplitudeUv = sign * uniform(rng, ...a.saccadeAmplitudeUv);
       const edge = s(0.03);
       const hold = s(uniform(rng, 0.3, 1.5));
       return { index, startSample: start, endSample: start + 2 * edge + hold, amplitudeUv, edge, hold };
-    });
+    }, still?.());
     this.muscles = new PoissonSchedule(seed, 'muscle', a.muscleBurstsPerMin, fs, (index, start, rng) => {
       const side = rng.nextFloat() < 0.5 ? 0 : 1;
       const amplitudeUv = uniform(rng, ...a.muscleRmsUv);
       return { index, startSample: start, endSample: start + s(uniform(rng, 0.3, 2)), amplitudeUv, side };
-    });
+    }, still?.());
     this.pops = new PoissonSchedule(seed, 'pops', popChannels.length > 0 ? a.popsPerMin : 0, fs, (index, start, rng) => {
       const channel = popChannels[rng.nextInt(popChannels.length)]!;
       const sign = rng.nextFloat() < 0.5 ? -1 : 1;

@@ -15,7 +15,7 @@ import { ArtifactGenerator } from './artifacts';
 import { electrodePoint } from './head';
 import { parseProfile, type SimulationProfile } from './profile';
 import { fillNormal, stream, uniform, type Rng } from './random';
-import { CueSchedule, runLengthSamples, type ScheduledCue } from './schedule';
+import { CueSchedule, epochDeferral, runLengthSamples, type ScheduledCue } from './schedule';
 import { pinkProcess, resonatorProcess } from './processes';
 import { buildSources, type ContinuousSource } from './sources';
 import type { GroundTruth, TruthEffect } from './truth';
@@ -79,12 +79,14 @@ export function createSimulation(profile: SimulationProfile | unknown, opts: { s
   const mainsRng = stream(seed, 'mains');
   const gains = Float64Array.from(p.channels, () => uniform(mainsRng, 0.5, 1.5));
   const phase = uniform(mainsRng, 0, 2 * Math.PI);
+  const cueSchedule = new CueSchedule(p, seed);
   const before = Math.min(0, ...p.effects.map((e) => Math.round(e.onsetS * fs)));
   const after = Math.max(0, ...p.effects.map((e) => Math.round((e.onsetS + e.durationS) * fs)));
   return {
     profile: p, seed, sampleRateHz: fs, channelNames: canonical, runLengthSamples: runLengthSamples(p, seed),
-    nextSample: 0, sources, effects, cueSchedule: new CueSchedule(p, seed),
-    artifacts: new ArtifactGenerator(p, seed, electrodes, live),
+    nextSample: 0, sources, effects, cueSchedule,
+    artifacts: new ArtifactGenerator(p, seed, electrodes, live,
+      p.artifacts.stillDuringEpochs ? () => epochDeferral(new CueSchedule(p, seed), p) : undefined),
     sensorRngs: p.channels.map((_, c) => stream(seed, 'sensor', c)),
     mains: { omega: 2 * Math.PI * p.artifacts.mainsHz / fs, phase, gains }, flat,
     effectReach: { before, after }, mixing: mixingMatrix(sources, p.channels.length), firstLiveCue: 0,

@@ -50,6 +50,11 @@ const artifactsSchema = z.strictObject({
   muscleRmsUv: range(0, 500).default([8, 30]),
   popAmplitudeUv: range(0, 5000).default([50, 250]),
   dropoutDurationS: range(0.001, 60).default([0.05, 0.5]),
+  /**
+   * A participant told to keep still during each trial: a blink, saccade or muscle burst that
+   * would overlap a cue's epoch is deferred to the epoch's end (pops, dropouts and mains are not).
+   */
+  stillDuringEpochs: z.boolean().default(false),
 });
 
 const backgroundSchema = z.strictObject({

@@ -70,9 +70,45 @@ export function runLengthSamples(profile: SimulationProfile, seed = profile.seed
 export interface TimedEvent { index: number; startSample: number; endSample: number }
 
 /**
+ * Where an event of `length` samples drawn at `startSample` really starts (never earlier): see
+ * `epochDeferral`.
+ */
+export type Placement = (startSample: number, length: number) => number;
+
+/**
+ * Placement for a participant who keeps still during trials: an event that would overlap the
+ * epoch [cue + tmin, cue + tmax) of any cue starts at that epoch's end instead, and again at the
+ * next epoch's end while it does not fit in the gap before that epoch. An event that finds no
+ * gap long enough within MAX_DEFERRALS epochs keeps its drawn start (the participant could not
+ * hold it). Events are only ever delayed, and in the order drawn.
+ */
+export function epochDeferral(cues: CueSchedule, profile: SimulationProfile): Placement {
+  const fs = profile.sampleRateHz;
+  const from = Math.round(profile.epoch.tminS * fs);
+  const to = Math.round(profile.epoch.tmaxS * fs);
+  let cursor = 0; // first cue whose epoch ends after the latest drawn start (starts come in order)
+  return (start, length) => {
+    cues.ensureUntil(start + length - from);
+    while (cursor < cues.cues.length && cues.cues[cursor]!.sample + to <= start) cursor++;
+    let s = start;
+    for (let i = cursor, moves = 0; moves <= MAX_DEFERRALS; i++) {
+      cues.ensureUntil(s + length - from);
+      const c = cues.cues[i]!.sample;
+      if (c + from >= s + length) return s;
+      if (c + to > s) { s = c + to; moves++; }
+    }
+    return start;
+  };
+}
+
+/** Epochs an event may be deferred past before it keeps its drawn start (`epochDeferral`). */
+export const MAX_DEFERRALS = 20;
+
+/**
  * Poisson events of one kind at `ratePerMin` (exponential intervals between onsets). Events of
  * one kind never overlap: an onset that would fall inside the previous event moves to its end.
- * `make` draws the event's own parameters from the kind's stream.
+ * `make` draws the event's own parameters from the kind's stream; `place`, when given, may then
+ * delay the event (keeping its length), e.g. out of the trials' epochs (`epochDeferral`).
  */
 export class PoissonSchedule<E extends TimedEvent> {
   readonly events: E[] = [];
@@ -82,7 +118,8 @@ export class PoissonSchedule<E extends TimedEvent> {
   firstActive = 0;
 
   constructor(seed: number, kind: string, private readonly ratePerMin: number, private readonly sampleRateHz: number,
-              private readonly make: (index: number, startSample: number, rng: Rng) => E) {
+              private readonly make: (index: number, startSample: number, rng: Rng) => E,
+              private readonly place?: Placement) {
     this.rng = stream(seed, kind);
     this.nextOnsetS = ratePerMin > 0 ? exponential(this.rng, 60 / ratePerMin) : Infinity;
   }
@@ -94,7 +131,9 @@ export class PoissonSchedule<E extends TimedEvent> {
       if (last && last.startSample >= sample) return;
       let start = Math.round(this.nextOnsetS * this.sampleRateHz);
       if (last && start < last.endSample) start = last.endSample;
-      this.events.push(this.make(this.events.length, start, this.rng));
+      const e = this.make(this.events.length, start, this.rng);
+      const placed = this.place ? this.place(start, e.endSample - start) : start;
+      this.events.push(placed === start ? e : { ...e, startSample: placed, endSample: e.endSample + placed - start });
       this.nextOnsetS += exponential(this.rng, 60 / this.ratePerMin);
     }
   }

@@ -3,8 +3,14 @@
 import { readFileSync } from 'node:fs';
 import type { SimulationProfileInput } from '../../simulator/profile';
 
-export function demoProfile(): SimulationProfileInput {
-  return JSON.parse(readFileSync(new URL('../../simulator/profiles/demo-hand-imagery.json', import.meta.url), 'utf8')) as SimulationProfileInput;
+/**
+ * The demo participant, by default with artifacts placed regardless of the cues
+ * (stillDuringEpochs false): the decodability and prior checks need blinks, saccades and muscle
+ * inside the training epochs, where ICA meets them.
+ */
+export function demoProfile(opts: { stillDuringEpochs?: boolean } = {}): SimulationProfileInput {
+  const p = JSON.parse(readFileSync(new URL('../../simulator/profiles/demo-hand-imagery.json', import.meta.url), 'utf8')) as SimulationProfileInput;
+  return { ...p, artifacts: { ...p.artifacts, stillDuringEpochs: opts.stillDuringEpochs ?? false } };
 }
 
 export function busyProfile(overrides: Partial<SimulationProfileInput> = {}): SimulationProfileInput {
