@@ -11,40 +11,47 @@
  * log-power feature by its single-trial signal-to-noise against everything else the model sees,
  * so its peak need not be where the class difference is. Given the training epochs, each selected
  * component also gets its activation pattern (Haufe et al. 2014, eq. 6 for one decision value,
- * A = Cov(x, ŷ)/Var(ŷ)) in the space of the measured features, the binned Morlet log power x
- * (before the per-feature z-scoring, which belongs to the model, i.e. to the filter):
+ * A = Cov(x, ŷ)/Var(ŷ)) in the space of the measured quantity, the binned Morlet power x = exp(log
+ * power feature) (before the per-feature z-scoring, which belongs to the model, i.e. to the filter):
  *   A_k[f, t] = Σ_i (x_ik[f, t] − x̄_k[f, t]) (ŷ_i − ȳ) / Σ_i (ŷ_i − ȳ)²,
- * with ŷ_i the decoder's decision value on training trial i: how much the component's log power at
- * (f, t) moves per unit of decision value (positive: it grows towards classes[1]). Its leading
+ * with ŷ_i the decoder's decision value on training trial i: how much the component's power at
+ * (f, t) moves per unit of decision value (positive: it grows towards classes[1]). Power, not log
+ * power: an ERD/ERS is a change of band power (Pfurtscheller & Lopes da Silva 1999), and power
+ * adds over sources, so class-blind sources mixed into the component cancel in the covariance and
+ * the pattern peaks where the effect's power is. In log power (a relative change) the same
+ * pattern peaks where the effect is the largest fraction of the component's power, which shifts
+ * with whatever class-blind power (alpha, background) the component carries at each frequency;
+ * `activationPatterns(trainingFeatures(a, training), 'log-power')` (interpret-patterns.ts) gives that one. Its leading
  * singular triplet gives the pattern's frequency profile and time course (same sign rule). Then
  * `frequencyProfile`, `timeCourse`, `peakFrequencyHz` and `peakTimeS` are the pattern's
  * (`profileSource: 'activation-pattern'`); without training epochs they are the weights'
  * (`'weights'`). The weights' own profile and peaks are always in the `weight*` fields.
  *
  * Band pattern: the scalp map `map` is the ICA mixing column, the component's pattern over the
- * whole band (for uncorrelated components it equals Σ_x w_k, Haufe et al. 2014, eq. 6, with w_k
- * the unmixing row). The decoder reads the component's power near peakFrequencyHz only, so given the
- * training epochs `bandMap` is the pattern of that band-limited activity, a_k = Σ_f w_k / (w_kᵀ Σ_f w_k),
- * with Σ_f = mean over trials and times of Re(c cᴴ), c the channels' complex Morlet coefficients at
- * that frequency (the decoder's own wavelet: same cycles and normalisation). This is how patterns of
- * band-specific spatial filters are read (CSP: Blankertz, Tomioka, Lemm, Kawanabe & Müller 2008,
- * IEEE Signal Process Mag 25(1):41-56; Haufe et al. 2014). Where ICA leaves a stationary rhythm mixed
- * with broadband background, the band pattern shows the rhythm the decoder actually reads; it
- * is dominated by whichever sources are strong at that frequency within the component.
+ * whole band and over everything it carries (for uncorrelated components it equals Σ_x w_k, Haufe
+ * et al. 2014, eq. 6, w_k the unmixing row). Given the training epochs, `bandMap` is the pattern of
+ * the component's activity that the decision follows, at the activation pattern's peak frequency f:
+ * per channel c, a_k[c] = Cov(g_c, ŷ)/Var(ŷ) with g_c = mean_t Re(x_c(t)·conj(s_k(t))), the
+ * trial's cross-spectrum between the channel and the component (complex Morlet coefficients x_c, and
+ * s_k = w_kᵀx, with the decoder's wavelet at f). With independent sources of powers P_j(f) and
+ * patterns a_j, g = Σ_j P_j (w_kᵀa_j) a_j, so a_k = Σ_j Cov(P_j, ŷ)/Var(ŷ)·(w_kᵀa_j)·a_j: sources whose
+ * power does not follow the decision (background, alpha) drop out, and the map is that of the
+ * source(s) whose band power the decoder reads through this component: Haufe's pattern of the
+ * channels' cross-spectra with the component. It answers "which source does this component's
+ * decision-relevant power come from" where the ICA map cannot: ICA (non-Gaussianity) leaves a
+ * stationary Gaussian rhythm mixed with background sources. `bandMapFrequencyHz` is f.
  *
  * covariance: W = Σ_j μ_j e_j e_jᵀ (symmetric eigendecomposition of (W + Wᵀ)/2); per non-zero
  * μ_j the spatial filter Pᵀ e_j and, following Haufe et al. 2014 (NeuroImage 87:96-110), the
  * pattern (training mean covariance)·Pᵀ e_j, i.e. the artifact's patternBasis times e_j. Positive μ: more power along the filter favours classes[1].
  */
-import { applyUnmixing, type FittedIca } from '../ica/ica';
 import { svd } from '../linalg/svd';
 import { symmetricEig } from '../linalg/symmetric-eig';
-import { ShapeError, type Epochs } from '../types';
-import type { ComponentTfModel, DecoderArtifact } from './artifact';
+import type { DecoderArtifact } from './artifact';
+import { activationPatterns, bandPatterns, trainingFeatures, type InterpretationTraining } from './interpret-patterns';
 import { decodeF64, decodeRows } from './pipeline';
-import { binnedLogPower, morletGrid } from './recipes/morlet-stage';
-import { cwt } from '../tf/cwt';
-import { createMorletPlan } from '../tf/morlet-plan';
+
+export type { InterpretationTraining } from './interpret-patterns';
 
 /** One selected component of a component-tf decoder. */
 export interface ComponentInterpretation {
@@ -72,13 +79,13 @@ export interface ComponentInterpretation {
   weightTimeCourse: number[];
   weightPeakFrequencyHz: number;
   weightPeakTimeS: number;
-  /** Activation pattern A_k [F][T] (log power per unit decision value), null without training epochs. */
+  /** Activation pattern A_k [F][T] (power, component units², per unit decision value), null without training epochs. */
   activationPattern: number[][] | null;
   /** Leading singular value of A_k (0 without training epochs). */
   patternSingularValue: number;
   /**
-   * Scalp pattern of the component's activity at peakFrequencyHz (module comment, "band pattern"), [channel],
-   * µV per unit of the band-limited component; null without training epochs.
+   * Band pattern at bandMapFrequencyHz (module comment): covariance of each channel's cross-spectrum with the
+   * component with the decision value, [channel], µV·(component unit) per unit decision value; null without training epochs.
    */
   bandMap: number[] | null;
   /** The frequency bandMap is taken at, Hz (NaN without training epochs). */
@@ -97,11 +104,6 @@ export interface SpatialPatternInterpretation {
 export type DecoderInterpretation =
   | { recipe: 'component-tf'; components: ComponentInterpretation[] }
   | { recipe: 'covariance'; spatialPatterns: SpatialPatternInterpretation[] };
-
-/** Training epochs for activation patterns: pre-processed as the decoder's training saw them. */
-export interface InterpretationTraining {
-  epochs: Epochs; // [trial][channel][sample], the decoder's channel order and epoch length
-}
 
 /** Leading singular triplet of an F×T matrix with the sign rule and argmax peaks (module comment). */
 function leadingTriplet(m: Float64Array, F: number, T: number, count: number, freqs: readonly number[], timesS: readonly number[]) {
@@ -122,111 +124,6 @@ function leadingTriplet(m: Float64Array, F: number, T: number, count: number, fr
 }
 
 /**
- * Activation patterns A_k = Cov(x_k, ŷ)/Var(ŷ) of the selected components on training epochs
- * (module comment; Haufe et al. 2014, NeuroImage 87:96-110), computed from the artifact alone:
- * unmixing, Morlet log power, z-scoring and weights exactly as predict.ts applies them.
- * @returns [selected] F·T row-major patterns, log power per unit decision value
- */
-export function activationPatterns(a: DecoderArtifact, training: InterpretationTraining): Float64Array[] {
-  const m = a.model as ComponentTfModel;
-  if (m.kind !== 'component-tf') throw new ShapeError('artifact.model', `expected a component-tf model, got '${String(m.kind)}'`);
-  const { epochs } = training;
-  const n = epochs.length;
-  if (n < 2) throw new ShapeError('training.epochs', `expected at least 2 trials, got ${n}`);
-  const rows = decodeRows(m.unmixing, 'model.unmixing');
-  const ica = { mean: decodeF64(m.mean, 'model.mean'), unmixing: rows, mixing: [] } as unknown as FittedIca;
-  const grid = morletGrid({ sampleRateHz: a.sampleRateHz, nSamples: m.cwt.nSamples, lowHz: m.cwt.lowHz, highHz: m.cwt.highHz,
-                            count: m.cwt.count, cycles: m.cwt.cycles, binS: m.cwt.binS });
-  const size = m.blockShape.rows * m.blockShape.cols;
-  if (grid.frequenciesHz.length * grid.nBins !== size) throw new ShapeError('model.blockShape', `expected ${grid.frequenciesHz.length}×${grid.nBins}`);
-  const K = rows.length;
-  const mu = decodeF64(m.featureMean, 'model.featureMean');
-  const sd = decodeF64(m.featureScale, 'model.featureScale');
-  const w = decodeF64(m.weights, 'model.weights');
-  const x = new Float64Array(n * K * size); // [trial][selected][F·T] log power
-  const y = new Float64Array(n);
-  const scratch = new Float64Array(grid.frequenciesHz.length * grid.plan.nTimes);
-  epochs.forEach((trial, i) => {
-    trial.forEach((ch, c) => {
-      if (ch.length !== m.cwt.nSamples) throw new ShapeError(`training.epochs[${i}][${c}]`, `expected ${m.cwt.nSamples} samples, got ${ch.length}`);
-    });
-    const acts = applyUnmixing(ica, trial);
-    let z = m.bias;
-    acts.forEach((act, k) => {
-      const o = (i * K + k) * size;
-      binnedLogPower(grid, act, x, o, scratch);
-      for (let j = 0; j < size; j++) z += ((x[o + j]! - mu[k * size + j]!) / sd[k * size + j]!) * w[k * size + j]!;
-    });
-    y[i] = z;
-  });
-  let ym = 0;
-  for (const v of y) ym += v / n;
-  let vy = 0;
-  for (const v of y) vy += (v - ym) ** 2;
-  return Array.from({ length: K }, (_, k) => {
-    const pat = new Float64Array(size);
-    if (!(vy > 0)) return pat;
-    const xm = new Float64Array(size);
-    for (let i = 0; i < n; i++) for (let j = 0; j < size; j++) xm[j]! += x[(i * K + k) * size + j]! / n;
-    for (let i = 0; i < n; i++) {
-      const dy = (y[i]! - ym) / vy;
-      for (let j = 0; j < size; j++) pat[j]! += (x[(i * K + k) * size + j]! - xm[j]!) * dy;
-    }
-    return pat;
-  });
-}
-
-/**
- * Band patterns a_k = Σ_f w_k / (w_kᵀ Σ_f w_k) of the selected components (module comment), each at its own
- * frequency, from the training epochs.
- * @param frequenciesHz [selected] frequency per component, Hz (NaN: that component's pattern is all NaN)
- * @returns [selected][channel]
- */
-export function bandPatterns(a: DecoderArtifact, training: InterpretationTraining, frequenciesHz: readonly number[]): Float64Array[] {
-  const m = a.model as ComponentTfModel;
-  if (m.kind !== 'component-tf') throw new ShapeError('artifact.model', `expected a component-tf model, got '${String(m.kind)}'`);
-  const rows = decodeRows(m.unmixing, 'model.unmixing');
-  if (frequenciesHz.length !== rows.length) throw new ShapeError('frequenciesHz', `expected ${rows.length} values (one per selected component), got ${frequenciesHz.length}`);
-  const C = a.channelNames.length;
-  const cov = new Map<number, Float64Array>();
-  for (const f of new Set(frequenciesHz.filter((x) => Number.isFinite(x)))) {
-    const plan = createMorletPlan({ sampleRateHz: a.sampleRateHz, nSamples: m.cwt.nSamples, frequenciesHz: [f], cycles: m.cwt.cycles,
-                                    normalisation: 'unit-energy', padding: 'reflect', decimation: 2 });
-    const s = new Float64Array(C * C);
-    let count = 0;
-    training.epochs.forEach((trial, i) => {
-      if (trial.length !== C) throw new ShapeError(`training.epochs[${i}]`, `expected ${C} channels, got ${trial.length}`);
-      const cs = trial.map((x) => cwt(plan, x));
-      const T = cs[0]?.re.length ?? 0;
-      for (let p = 0; p < C; p++) {
-        for (let q = 0; q <= p; q++) {
-          const rp = cs[p]!.re, ip = cs[p]!.im, rq = cs[q]!.re, iq = cs[q]!.im;
-          let acc = 0;
-          for (let t = 0; t < T; t++) acc += rp[t]! * rq[t]! + ip[t]! * iq[t]!;
-          s[p * C + q]! += acc;
-        }
-      }
-      count += T;
-    });
-    for (let p = 0; p < C; p++) for (let q = 0; q <= p; q++) { s[p * C + q]! /= count; s[q * C + p] = s[p * C + q]!; }
-    cov.set(f, s);
-  }
-  return rows.map((w, k) => {
-    const s = cov.get(frequenciesHz[k]!);
-    if (s === undefined) return new Float64Array(C).fill(NaN);
-    const out = new Float64Array(C);
-    let q = 0;
-    for (let p = 0; p < C; p++) {
-      let acc = 0;
-      for (let r = 0; r < C; r++) acc += s[p * C + r]! * w[r]!;
-      out[p] = acc;
-      q += w[p]! * acc;
-    }
-    return out.map((v) => (q > 0 ? v / q : NaN));
-  });
-}
-
-/**
  * Interpretation data of an artifact (verified or not; it does not check the seal).
  * @param count singular triplets of W_k to report
  * @param training the training epochs: adds activation patterns and reads the profiles from them
@@ -241,9 +138,11 @@ export function interpretDecoder(a: DecoderArtifact, count = 3, training?: Inter
   const binSamples = Math.round(binS * a.sampleRateHz);
   const timesS = Array.from({ length: T }, (_, b) => a.epoch.tminS + (b * binSamples + binSamples / 2) / a.sampleRateHz);
   const freqs = m.cwt.frequenciesHz;
-  const patterns = training === undefined || m.selected.length === 0 ? null : activationPatterns(a, training);
+  const feats = training === undefined || m.selected.length === 0 ? null : trainingFeatures(a, training);
+  const patterns = feats === null ? null : activationPatterns(feats);
   const triplets = patterns?.map((pk) => leadingTriplet(pk, F, T, 1, freqs, timesS)) ?? null;
-  const bands = training === undefined || triplets === null ? null : bandPatterns(a, training, triplets.map((t) => t.peakHz));
+  const bands = training === undefined || feats === null || triplets === null ? null
+    : bandPatterns(a, training, feats, triplets.map((t) => t.peakHz));
   const components = m.selected.map((k, i) => {
     const wk = w.subarray(i * F * T, (i + 1) * F * T);
     const wt = leadingTriplet(wk, F, T, count, freqs, timesS);
