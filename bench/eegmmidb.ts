@@ -108,7 +108,7 @@ if (process.argv.includes('--csp-only')) {
 interface Row {
   subject: string; trials: number;
   recipes: Record<string, { accuracy: number; cvSeconds: number; cvCpuSeconds: number | null; rank: number; selected: number | null;
-                            laterRun: number | null; timings: TrainingReport['timings'] }>;
+                            laterRun: number | null; timings: TrainingReport['timings']; edgeFolds: number; folds: number }>;
   cspLda: number; bandpowerLogreg: number; cspLaterRun: number | null;
 }
 
@@ -129,8 +129,11 @@ for (const subject of subjects) {
                                                     prior, ...components });
       laterRun = predictRecording(loadDecoder(JSON.parse(JSON.stringify(artifact)) as unknown), runs[2]!, ['T1', 'T2']).accuracy;
     }
+    const grid = (report.settings.lambda ?? {}) as { minRatio?: number };
+    const edge = report.lambda.perFoldRelative.filter((r) => grid.minRatio !== undefined && Math.abs(r - grid.minRatio) <= 1e-9 * grid.minRatio).length;
     row.recipes[recipe] = { accuracy: report.nestedCvAccuracy, cvSeconds: report.timings.cvSeconds, cvCpuSeconds: report.timings.cvCpuSeconds,
-                            rank: report.rank, selected: report.selectedComponents?.length ?? null, laterRun, timings: report.timings };
+                            rank: report.rank, selected: report.selectedComponents?.length ?? null, laterRun, timings: report.timings,
+                            edgeFolds: edge, folds: report.lambda.perFoldRelative.length };
     process.stderr.write(`${subject} ${recipe}: ${report.nestedCvAccuracy.toFixed(3)} (cv ${report.timings.cvSeconds.toFixed(1)} s wall, ` +
       `${report.timings.cvCpuSeconds?.toFixed(1)} s cpu per ${repeats} repeat(s))${laterRun === null ? '' : `, later run ${laterRun.toFixed(3)}`}\n`);
   });
@@ -167,6 +170,13 @@ if (json) {
     lines.push('| subject | CSP+LDA | component-tf | covariance |', '|---|---|---|---|');
     for (const r of rows) lines.push(`| ${r.subject} | ${f3(r.cspLaterRun)} | ${f3(r.recipes['component-tf']?.laterRun)} | ${f3(r.recipes.covariance?.laterRun)} |`);
     lines.push(`| mean | ${f3(mean((r) => r.cspLaterRun))} | ${f3(mean((r) => r.recipes['component-tf']?.laterRun))} | ${f3(mean((r) => r.recipes.covariance?.laterRun))} |`);
+  }
+  for (const k of recipes) {
+    const e = rows.reduce((a, r) => a + (r.recipes[k]?.edgeFolds ?? 0), 0);
+    const f = rows.reduce((a, r) => a + (r.recipes[k]?.folds ?? 0), 0);
+    const c = rows.map((r) => r.recipes[k]?.cvCpuSeconds).filter((x): x is number => typeof x === 'number');
+    lines.push('', `${k}: smallest λ of the grid chosen in ${e} of ${f} outer folds; nested CV CPU per subject ${Math.min(...c).toFixed(0)}-${Math.max(...c).toFixed(0)} s ` +
+      `(${repeats} repeat(s)), ${(c.reduce((a, b) => a + b, 0) / c.length / repeats).toFixed(0)} s per repeat on average`);
   }
   lines.push('', `total ${totalS.toFixed(0)} s wall, ${cpu().toFixed(0)} s CPU; peak RSS ${mem.maxRssMB.toFixed(0)} MB`);
   lines.push(`Data: ${EEGMMIDB_CITATION}`);

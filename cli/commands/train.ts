@@ -68,7 +68,7 @@ export function register(program: Command): void {
     .option('--inner <k>', 'inner folds for choosing lambda', int(2), 5)
     .option('--repeats <n>', 'repeats of the outer cross-validation with different seeds', int(1), 1)
     .option('--seed <n>', 'seed of the fold plans and ICA', int(0), 0)
-    .option('--components <n>', 'ICA components (component-tf, default 15) or covariance rank (covariance, default 32)', int(1))
+    .option('--components <n>', 'ICA components (component-tf, default 15) or covariance rank (covariance, default: all channels)', int(1))
     .option('--no-prior', 'switch the component plausibility prior off (all w_k = 1)')
     .option('--no-baselines', 'skip the CSP + LDA and band power + logistic baselines')
     .action((o: TrainCliOptions) => {

@@ -51,7 +51,7 @@ export interface TrainOptions {
   inner?: number; // inner k [5]
   repeats?: number; // [1]
   seed?: number; // [0]
-  /** ICA components (component-tf) or covariance rank (covariance) [15 / 32]. */
+  /** ICA components (component-tf) or covariance rank (covariance) [15 / all channels]. */
   components?: number;
   prior?: boolean; // [true]
   /** Evaluate the two baselines [true]. */

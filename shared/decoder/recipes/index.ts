@@ -8,13 +8,14 @@
  *     log power, 16 log-spaced frequencies 4-40 Hz, 7 cycles, 0.25 s bins; per-feature
  *     standardisation; trace-norm logistic regression, one block per component, λ by inner CV
  *     over 10 values from λ_max to λ_max/100 (Tomioka & Müller 2010).
- *   covariance: causal 8-30 Hz band-pass (order 4), no CAR; epochs 0.5..2.5 s; whitened trial
- *     covariance on the 32 leading principal directions of the training mean covariance;
- *     trace-norm logistic regression on the single r×r block, λ as above.
+ *   covariance: causal 8-30 Hz band-pass (order 4), no CAR; epochs 0.5..2.5 s; trial
+ *     covariance whitened by the training mean covariance over all its directions (the full
+ *     C×C form of Tomioka & Müller 2010); trace-norm logistic regression on the single
+ *     symmetric block, λ as above.
  * The component-tf defaults follow the outside NumPy implementation quoted in
  * shared/data/eegmmidb/REFERENCE-ACCURACY.md; the covariance band and window are the CSP ones.
- * The covariance rank 32 is our choice for speed (the solver's cost grows as r³; see
- * docs/decoder.md for the measured effect).
+ * `components` below the channel count reduces the covariance to that many whitened
+ * directions (recipes/covariance.ts), an option for speed only.
  */
 import type { IcaMethod } from '../../ica/ica';
 import { ParamError } from '../../types';
@@ -37,7 +38,7 @@ export interface RecipeOptions {
   order?: number;
   notchHz?: number | null;
   car?: boolean;
-  /** ICA components (component-tf, default 15) or covariance rank (covariance, default 32). */
+  /** ICA components (component-tf, default 15) or covariance rank (covariance, default: all channels). */
   components?: number;
   /** Directions kept by the covariance rank reduction (recipes/covariance.ts; default 'fluctuation'). */
   covarianceSubspace?: 'variance' | 'fluctuation';
@@ -75,7 +76,7 @@ export function planRecipe(opts: RecipeOptions, sampleRateHz: number, channelNam
     const preprocess = designPreprocessing({ sampleRateHz, channelNames, bandpassHz: opts.bandpassHz ?? COVARIANCE_DEFAULTS.bandpassHz,
                                              order: opts.order ?? COVARIANCE_DEFAULTS.order, notchHz: opts.notchHz ?? null,
                                              car: opts.car ?? COVARIANCE_DEFAULTS.car });
-    const rank = Math.min(opts.components ?? 32, channelNames.length);
+    const rank = Math.min(opts.components ?? channelNames.length, channelNames.length);
     const subspace = opts.covarianceSubspace ?? 'fluctuation';
     return {
       recipe: 'covariance', preprocess, window, settings: { rank, subspace, lambda },
