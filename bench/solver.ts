@@ -122,7 +122,7 @@ for (const effect of [0.35, 0.12]) {
 
 {
   const side = 64;
-  const { x, labels } = symmetricProblem(36, side, 3, 0.3);
+  const { x, labels } = symmetricProblem(36, side, 3, 0.06);
   for (const symmetric of [true, false]) {
     const features: MatrixFeatures = { nTrials: 36, blocks: [{ rows: side, cols: side, symmetric }], x };
     traceNormPath(features, labels, { count: 3, minRatio: 0.5 }); // warm-up (JIT)
