@@ -11,76 +11,17 @@
  * last 10 s), feedsSustained, the largest online-offline probability difference over every
  * trial (offline predict on the samples read back from SQLite), CPU time, and the machine load.
  */
-import { spawn } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { createInterface } from 'node:readline';
 import { monitorEventLoopDelay, PerformanceObserver } from 'node:perf_hooks';
-import { readFileSync } from 'node:fs';
-import { serialiseArtifact, type DecoderArtifact } from '../shared/decoder/artifact';
-import * as train from '../shared/decoder/train';
-import type { Recording } from '../shared/types';
-import { FeedBridgeClient } from '../simulator/bridge-client';
-import { runBridge } from '../simulator/bridge-run';
-import { simulateRecording } from '../simulator/offline';
-import { replaySource } from '../simulator/replay';
 import { start } from '../server/index';
 import { offlineTrials } from '../server/live/offline';
+import {
+  arg, CHANNELS, cpuMs, pct, runBridgesChild, setUpSessions, spawnBridges, trainBenchDecoder, type BridgesConfig, type BridgesDone,
+} from './live-setup';
 
-const arg = (name: string, dflt: string) => { const i = process.argv.indexOf(`--${name}`); return i > 0 ? process.argv[i + 1] ?? dflt : dflt; };
-const CHANNELS = ['FC5', 'FC3', 'FC1', 'FCz', 'FC2', 'FC4', 'FC6', 'C5', 'C3', 'C1', 'Cz', 'C2', 'C4', 'C6', 'CP5', 'CP3', 'CP1', 'CPz',
-  'CP2', 'CP4', 'CP6', 'Fp1', 'Fpz', 'Fp2', 'AF7', 'AF3', 'AFz', 'AF4', 'AF8', 'F7', 'F5', 'F3', 'F1', 'Fz', 'F2', 'F4', 'F6', 'F8', 'FT7',
-  'FT8', 'T7', 'T8', 'T9', 'T10', 'TP7', 'TP8', 'P7', 'P5', 'P3', 'P1', 'Pz', 'P2', 'P4', 'P6', 'P8', 'PO7', 'PO3', 'POz', 'PO4', 'PO8',
-  'O1', 'Oz', 'O2', 'Iz'];
 const RATE = 1000;
-const CLASSES: [string, string] = ['left-hand', 'right-hand'];
-
-/** The demo participant on a 64-channel 1000 Hz cap (invented data). */
-function profile(trialsPerClass: number): Record<string, unknown> {
-  const demo = JSON.parse(readFileSync(new URL('../simulator/profiles/demo-hand-imagery.json', import.meta.url), 'utf8')) as Record<string, unknown>;
-  return { ...demo, sampleRateHz: RATE, channels: CHANNELS, trialsPerClass };
-}
-
-const pct = (xs: number[], p: number) => { const s = [...xs].sort((a, b) => a - b); return s.length ? s[Math.min(s.length - 1, Math.floor(p * s.length))]! : null; };
-const cpuMs = (u: NodeJS.CpuUsage) => (u.user + u.system) / 1000;
-
-interface ChildConfig { url: string; keys: string[]; seconds: number; staggerMs: number }
-
-/** Child process: K bridges replaying one simulated run. Reports on stdout, one JSON per line. */
-async function child(): Promise<void> {
-  const cfg = JSON.parse(process.env.AFTERCUE_BENCH_CHILD!) as ChildConfig;
-  const { recording } = simulateRecording(profile(20), { seed: 4, seconds: cfg.seconds + 5 });
-  const say = (m: unknown) => process.stdout.write(`${JSON.stringify(m)}\n`);
-  // Bridge i's sample 0 is due at startAt + i * staggerMs (its HELLO says so), once everything is connected.
-  const startAt = Date.now() + 3000 + cfg.keys.length * 100;
-  const clients = cfg.keys.map((key, i) => {
-    const source = replaySource(recording, { classes: CLASSES });
-    const client = new FeedBridgeClient({ serverUrl: cfg.url, rigKey: key, maxBufferedSamples: 120 * RATE,
-      onEvent: (e) => { if (e.kind === 'connected') say({ type: 'connected', i }); if (e.kind === 'refused') say({ type: 'refused', i, e }); },
-      hello: { sampleRateHz: RATE, rigId: `bench-${i}`, bridgeSessionId: `bench-${i}-${startAt}`,
-        startTime: new Date(startAt + i * cfg.staggerMs).toISOString(), channelNames: source.channelNames, units: source.units } });
-    client.start();
-    return { client, source };
-  });
-  const cpu0 = process.cpuUsage();
-  const stats = await Promise.all(clients.map(async ({ client, source }, i) => {
-    await new Promise((r) => setTimeout(r, Math.max(0, startAt + i * cfg.staggerMs - Date.now())));
-    return runBridge(source, client, { speed: 1, seconds: cfg.seconds, chunkMs: 40, finishTimeoutMs: 60_000 });
-  }));
-  say({ type: 'done', stats, cpuMs: cpuMs(process.cpuUsage(cpu0)) });
-}
-
-/** A sealed decoder of `recipe` fitted on a simulated calibration run (the decoder library's own fit). */
-function trainDecoder(recipe: 'covariance' | 'component-tf'): DecoderArtifact {
-  const { recording } = simulateRecording(profile(12), { seed: 3 });
-  const opts: train.TrainOptions = { recipe, classes: [CLASSES[0]!, CLASSES[1]!], inner: 3, seed: 1,
-    ...(recipe === 'covariance' ? { tminS: 0.5, tmaxS: 2.5 } : { components: 8 }),
-    recipeOptions: { notchHz: 50, car: true, lambda: { count: 4 } } };
-  type Fit = (rec: Recording, o: train.TrainOptions) => DecoderArtifact;
-  const fit = (train as unknown as { fitDecoder?: Fit }).fitDecoder;
-  return fit ? fit(recording, opts) : train.trainDecoder(recording, { ...opts, folds: 2, baselines: false }).artifact;
-}
 
 async function main(): Promise<void> {
   const feeds = Number(arg('feeds', '16'));
@@ -91,30 +32,13 @@ async function main(): Promise<void> {
   const dataDir = mkdtempSync(join(tmpdir(), 'aftercue-bench-live-'));
   const loadBefore = loadavg();
   log(`training the ${recipe} decoder (64 channels, 1000 Hz)...`);
-  const artifact = trainDecoder(recipe);
+  const artifact = trainBenchDecoder(recipe, RATE);
   const h = await start({ port: 0, dataDir, quiet: true, bcryptCost: 4, demoDecoder: false, host: '127.0.0.1' });
   try {
-    const admin = h.services.auth.sessionUser(1)!;
-    const study = h.services.studies.create({ name: 'Live benchmark', ethicsReference: 'BENCH (invented data)', cueClasses: CLASSES,
-      epochStartS: artifact.epoch.tminS, epochEndS: artifact.epoch.tmaxS, channelNames: CHANNELS, sampleRateHz: RATE, powerLineHz: 50, recipe }, admin);
-    const participant = h.services.participants.create(study.id, { code: 'B-001', consentStatus: 'given', consentDate: '2026-01-05' }, admin);
-    const text = serialiseArtifact(artifact);
-    const now = Date.now();
-    const decoderId = Number(h.db.sqlite.prepare(`INSERT INTO decoders (study_id, name, recipe, classes, channel_names, sample_rate_hz,
-      epoch_start_s, epoch_end_s, artifact, sha256, status, metrics, source, created_at, frozen_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?,
-      'frozen', '{}', 'import', ?, ?)`).run(study.id, `Bench ${recipe}`, recipe, JSON.stringify(CLASSES), JSON.stringify(artifact.channelNames),
-      RATE, artifact.epoch.tminS, artifact.epoch.tmaxS, text, artifact.sha256, now, now).lastInsertRowid);
-    const rigs = Array.from({ length: feeds }, (_, i) => h.services.rigs.create({ name: `Bench rig ${i + 1}`, location: '' }, admin));
-    const sessions = rigs.map((r) => h.services.sessions.create({ studyId: study.id, participantId: participant.id, rigId: r.rig.id, decoderId }, admin));
-
+    const { admin, decoderId, rigs, sessions } = setUpSessions(h, artifact, feeds, RATE);
     const staggerMs = Math.round(7000 / feeds);
-    const cfg: ChildConfig = { url: h.url, keys: rigs.map((r) => r.rigKey), seconds, staggerMs };
-    const proc = spawn(process.execPath, [...process.execArgv, new URL(import.meta.url).pathname, '--child'],
-      { env: { ...process.env, AFTERCUE_BENCH_CHILD: JSON.stringify(cfg) }, stdio: ['ignore', 'pipe', 'inherit'] });
-    const lines = createInterface({ input: proc.stdout! });
-    let connected = 0;
+    const cfg: BridgesConfig = { url: h.url, keys: rigs.map((r) => r.rigKey), seconds, staggerMs, rateHz: RATE };
     let started = false;
-    let done: { stats: Array<{ unackedFrames: number; overflowSamples: number }>; cpuMs: number } | null = null;
     const lagSamples: Array<{ t: number; lags: (number | null)[] }> = [];
     const loopDelay = monitorEventLoopDelay({ resolution: 10 });
     const gcPauses: number[] = [];
@@ -126,23 +50,16 @@ async function main(): Promise<void> {
       if (!started) return;
       lagSamples.push({ t: Date.now(), lags: sessions.map((s) => h.services.live.sessions.get(s.id)?.feed?.lagMs ?? null) });
     }, 1000);
-    await new Promise<void>((resolve, reject) => {
-      lines.on('line', (line) => {
-        const m = JSON.parse(line) as { type: string };
-        if (m.type === 'connected' && ++connected === feeds && !started) {
-          void Promise.all(sessions.map((s) => h.services.sessions.start(s.id, admin))).then(() => {
-            started = true;
-            cpu0 = process.cpuUsage();
-            wall0 = Date.now();
-            loopDelay.enable();
-            log(`${feeds} sessions running; streaming ${seconds} s...`);
-          }, reject);
-        }
-        if (m.type === 'refused') reject(new Error(line));
-        if (m.type === 'done') { done = m as unknown as typeof done; resolve(); }
-      });
-      proc.on('exit', (code) => { if (!done) reject(new Error(`bridge process exited with ${code}`)); });
+    const bridges = spawnBridges(new URL(import.meta.url).pathname, cfg, () => {
+      void Promise.all(sessions.map((s) => h.services.sessions.start(s.id, admin))).then(() => {
+        started = true;
+        cpu0 = process.cpuUsage();
+        wall0 = Date.now();
+        loopDelay.enable();
+        log(`${feeds} sessions running; streaming ${seconds} s...`);
+      }, (e: unknown) => { process.stderr.write(`starting the sessions failed: ${String(e)}\n`); bridges.proc.kill(); });
     });
+    const done: BridgesDone = await bridges.done;
     clearInterval(sampler);
     gcObserver.disconnect();
     if (process.env.BENCH_DEBUG) process.stderr.write(`${JSON.stringify(lagSamples.map((x) => [x.t - wall0, ...x.lags.map((l) => l && Math.round(l))]))}\n`);
@@ -178,7 +95,7 @@ async function main(): Promise<void> {
       const v = lagSamples.map((x) => x.lags[i]).filter((l): l is number => l !== null && l !== undefined);
       const mean = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / Math.max(1, xs.length);
       return { maxLagMs: v.length ? Math.max(...v) : Infinity, growthMs: mean(v.slice(-10)) - mean(v.slice(0, 10)),
-        unacked: done!.stats[i]!.unackedFrames, overflow: done!.stats[i]!.overflowSamples };
+        unacked: done.stats[i]!.unackedFrames, overflow: done.stats[i]!.overflowSamples };
     });
     const sustained = perFeed.filter((f) => f.maxLagMs < 1000 && f.growthMs < 100 && f.unacked === 0 && f.overflow === 0).length;
     const commit = h.services.live.store.stats.commitMs;
@@ -189,7 +106,7 @@ async function main(): Promise<void> {
       feedsSustained: sustained, onlineOfflineMaxAbsDiff: maxDiff, trialsCompared: compared,
       predictComputeMs: { min: pct(computeMs, 0), p50: pct(computeMs, 0.5) },
       gc: { pauses: gcPauses.length, maxMs: gcPauses.length ? Math.max(...gcPauses) : 0, totalMs: Math.round(gcPauses.reduce((a, b) => a + b, 0)) },
-      cpu: { serverCpuMs: Math.round(serverCpuMs), bridgesCpuMs: Math.round(done!.cpuMs), wallMs, serverCores: serverCpuMs / wallMs,
+      cpu: { serverCpuMs: Math.round(serverCpuMs), bridgesCpuMs: Math.round(done.cpuMs), wallMs, serverCores: serverCpuMs / wallMs,
         eventLoopDelayMsP99: loopDelay.percentile(99) / 1e6, commitMsP50: pct(commit, 0.5), commitMsP99: pct(commit, 0.99) },
       conditions: { cores: cpus().length, loadAvgBefore: loadBefore.map((x) => Math.round(x * 100) / 100),
         loadAvgAfter: loadavg().map((x) => Math.round(x * 100) / 100), node: process.version, bridges: 'child process, loopback WebSocket',
@@ -202,5 +119,5 @@ async function main(): Promise<void> {
   }
 }
 
-if (process.argv.includes('--child')) await child();
+if (process.argv.includes('--child')) await runBridgesChild();
 else await main();
