@@ -55,6 +55,20 @@ describe('whitened covariance features', () => {
     expectClose(ms, 1, { rtol: 1e-10 });
   });
 
+  it('form one symmetric block, and the classifier keeps its weight symmetric', () => {
+    const x = whitenedCovarianceStage().fit(train).transform(train);
+    const r = train[0]!.length;
+    // Source: covariance.ts module comment (one r×r block per trial, F_i = (P C_i Pᵀ − S̄)/s is symmetric).
+    expect(x.features.blocks).toEqual([{ rows: r, cols: r, symmetric: true }]);
+    const w = fitPipeline([whitenedCovarianceStage() as AnyStage, traceNormCvStage({ count: 4 }) as AnyStage], train, y, { seed: 1, innerK: 3 })
+      .stages[1] as unknown as { model: { weights: Float64Array[]; lambda: number } };
+    const wk = w.model.weights[0]!;
+    for (let i = 0; i < r; i++) for (let j = 0; j < i; j++) {
+      // Definition: the gradient Σ r_i F_i of symmetric features is symmetric, so is the eigenvalue-thresholded weight.
+      expect(wk[i * r + j]).toBe(wk[j * r + i]);
+    }
+  });
+
   it('make the decoder invariant to an invertible mixing of the channels', () => {
     const rng = createRng(12);
     const c = train[0]!.length;
