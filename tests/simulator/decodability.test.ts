@@ -126,8 +126,9 @@ beforeAll(() => {
 
 /**
  * The selected component that best matches an effect's source (largest |r|): by its band pattern (interpret.ts
- * bandMap: the component's scalp pattern at its activation pattern's peak frequency, the activity the decoder reads)
- * or by its ICA map (the mixing column, the component's broadband pattern).
+ * bandMap: the channels' cross-spectra with the component at its activation pattern's peak frequency, against the
+ * decision value: the source whose band power the decoder reads through the component) or by its ICA map (the mixing
+ * column, the component's broadband pattern).
  */
 function effectComponent(e: TruthEffect, by: 'band' | 'mixing' = 'band'): { c: ComponentInterpretation; r: number } {
   const src = pattern(truth, e.sourceId);
@@ -208,14 +209,15 @@ describe('decodability of a simulated hand-imagery calibration (component-tf rec
     // Source: ground truth (the effect's sourceId and its scalp pattern); |r| >= 0.8 is our bar for "the same map".
     expect(Math.abs(r)).toBeGreaterThanOrEqual(0.8);
   };
-  // The component's scalp pattern at the frequency where the decoder reads it (interpret.ts bandMap; Haufe et al. 2014,
-  // patterns of band-limited activity as for CSP, Blankertz et al. 2008): 0.836 (C4) and 0.839 (C3) at the fixture's seed.
+  // The band pattern (interpret.ts bandMap, after Haufe et al. 2014): |r| 0.962 (C4, at 10.05 Hz) and 0.971 (C3, at
+  // 11.71 Hz) at the fixture's seed.
   it.each([0, 1])('selects a component whose band pattern is the source of effect %i', (i) => mapCheck(i, 'band'));
   // Known failure at the fixture's seed: the best-matching selected ICA map (mixing column, the broadband pattern) has
   // |r| = 0.741 with the C4 mu source. The simulator's rhythms are stationary Gaussian processes, which ICA
   // (non-Gaussianity) cannot isolate: within the Gaussian subspace its rotation is arbitrary, so the C4 mu component
   // comes out mixed with pink background sources (broadband) while its 11.7 Hz activity is the mu source's (band pattern
-  // above). The PCA subspace holds both mu patterns (|r| 1.000) and component 2 is the best of all 15 (docs/decodability.md).
+  // above). The 15-dimensional PCA subspace holds both mu patterns (|r| 1.000 for their projections) and component 2 is the
+  // best of all 15 (docs/decodability.md).
   knownFailure('selects a component whose ICA map is the source of effect 0 (C4, left-hand) [known failure]', () => mapCheck(0, 'mixing'));
   it('selects a component whose ICA map is the source of effect 1 (C3, right-hand)', () => mapCheck(1, 'mixing'));
 
@@ -234,9 +236,9 @@ describe('decodability of a simulated hand-imagery calibration (component-tf rec
     expect(Math.sign(sum)).toBe(e.class === 'left-hand' ? 1 : -1);
   });
 
-  // peakFrequencyHz is the activation pattern's (interpret.ts; Haufe et al. 2014, NeuroImage 87:96-110): 11.71 Hz for
-  // both effects at the fixture's seed. The weights' own u_1 (weightPeakFrequencyHz, a filter, not a pattern) peaks at
-  // 13.66 Hz: they follow single-trial signal-to-noise, not where the power changes (docs/decodability.md).
+  // peakFrequencyHz is the activation pattern's (interpret.ts; Haufe et al. 2014, NeuroImage 87:96-110, in power):
+  // 10.05 Hz (C4) and 11.71 Hz (C3) at the fixture's seed. The weights' own u_1 (weightPeakFrequencyHz, a filter, not a
+  // pattern) peaks at 13.66 Hz for both: they follow single-trial signal-to-noise, not where the power changes.
   it.each([0, 1])('finds effect %i at the profile\'s frequency (within 1.5 Hz)', (i) => {
     const e = truth.effects[i]!;
     const { c } = effectComponent(e);

@@ -7,6 +7,8 @@ import { loadDecoder, predictFilteredEpoch } from '../../../../shared/decoder/pr
 import type { ComponentTfModel } from '../../../../shared/decoder/artifact';
 import type { FittedTraceNormCv } from '../../../../shared/decoder/recipes/tracenorm-cv';
 import type { MatrixTrials } from '../../../../shared/decoder/recipes/matrix-trials';
+import type { MorletFeatureParams } from '../../../../shared/decoder/recipes/morlet-stage';
+import { describeFinalModel } from '../../../../shared/decoder/recipes/summary';
 import { cwtPower } from '../../../../shared/tf/cwt';
 import { createMorletPlan } from '../../../../shared/tf/morlet-plan';
 import { expectAllClose, expectClose } from '../../../helpers/all-close';
@@ -96,5 +98,21 @@ describe('activation patterns of a component-tf decoder (Haufe et al. 2014)', ()
       const proj = rows[k]!.reduce((acc, wc, c) => acc + wc * maps[k]![c]!, 0);
       expectClose(proj, cov, { rtol: 1e-8, atol: 1e-12 * Math.abs(cov) });
     });
+  });
+
+  it('puts the activation-pattern peaks in the training report when given the training epochs', () => {
+    const args = [fx.fp as never, 'component-tf', ['left', 'right'], fx.artifact.channelNames, fx.plan.window, fx.artifact.sampleRateHz,
+                  fx.plan.settings.morlet as MorletFeatureParams, true] as const;
+    const withData = describeFinalModel(...args, fx.train).selectedComponents!;
+    const bare = describeFinalModel(...args).selectedComponents!;
+    const interp = interpretDecoder(fx.artifact, 1, { epochs: fx.train });
+    if (interp.recipe !== 'component-tf') throw new Error('expected component-tf');
+    // Source: summary.ts module comment (peaks from interpret.ts: the pattern's with training epochs, else the weights').
+    for (const c of withData) {
+      const i = interp.components.find((x) => x.component === c.index)!;
+      expect([c.peakSource, c.peakFrequencyHz, c.peakTimeS]).toEqual(['activation-pattern', i.peakFrequencyHz, i.peakTimeS]);
+      expect([c.weightPeakFrequencyHz, c.weightPeakTimeS]).toEqual([i.weightPeakFrequencyHz, i.weightPeakTimeS]);
+    }
+    for (const c of bare) expect([c.peakSource, c.peakFrequencyHz]).toEqual(['weights', c.weightPeakFrequencyHz]);
   });
 });
