@@ -7,8 +7,9 @@
  *
  * Objective (sum form, REFERENCES.md §4; labels y ∈ {0,1}, s = 2y − 1, bias unpenalised):
  *   F(W, b) = Σ_i log(1 + exp(−s_i(Σ_k ⟨W_k, X_ik⟩ + b))) + λ Σ_k w_k ‖W_k‖_* + (α/2) Σ_k ‖W_k‖_F²
- * Solved by monotone FISTA with backtracking and singular value soft-thresholding
- * (tracenorm-fista.ts states the algorithm and stopping rule).
+ * Solved by monotone FISTA with backtracking and singular value soft-thresholding, or eigenvalue
+ * soft-thresholding for blocks flagged symmetric (tracenorm-fista.ts states the algorithm and
+ * stopping rule).
  */
 import { createPartialEigWorkspace } from '../linalg/symmetric-eig-partial';
 import { svd } from '../linalg/svd';
@@ -62,7 +63,8 @@ export interface TraceNormModel {
  * λ_max = max_k ‖Σ_i (y_i − ȳ) X_ik‖₂ / w_k: the smallest λ at which every W_k = 0 (then the
  * optimal bias is log(n₁/n₀)); derived from the optimality condition at W = 0 with the spectral
  * norm as the dual of the trace norm (REFERENCES.md §4; Recht, Fazel & Parrilo 2010). Exact
- * (largest singular value by SVD). The α term does not change it.
+ * (largest singular value by SVD; for a symmetric block the largest |eigenvalue|). The α term
+ * does not change it.
  */
 export function lambdaMax(features: MatrixFeatures, labels: Uint8Array, blockWeights?: Float64Array): number {
   const layout = blockLayout(features);
