@@ -1,6 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launchBrowser, newPage, screenshotPath, signInThroughUi, startTestServer, type TestServer } from './helpers';
+import { describe, expect, it } from 'vitest';
+import { screenshotPath, useBrowserTestEnv } from './helpers';
 
 // Demo admin seeded on first start (server/services/seed.ts DEMO_ACCOUNTS).
 const ADMIN = 'admin@aftercue.test';
@@ -8,22 +7,10 @@ const INVITEE = 'new.experimenter@lab.test';
 const INVITEE_PASSWORD = 'twelve-characters-at-least';
 
 describe('administration in the browser', () => {
-  let server: TestServer;
-  let browser: Browser;
-
-  beforeAll(async () => {
-    server = await startTestServer();
-    browser = await launchBrowser();
-  });
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const env = useBrowserTestEnv();
 
   it('an admin invites a user, who sets a password from the mailed link and signs in', async () => {
-    const { context, page } = await newPage(browser);
-    await signInThroughUi(page, server.url, ADMIN, '/admin/users');
+    const { context, page } = await env.signedInPage(ADMIN, '/admin/users');
 
     await page.locator('[data-test="invite-user"]').click();
     const dialog = page.getByRole('dialog', { name: 'Invite a user' });
@@ -53,13 +40,13 @@ describe('administration in the browser', () => {
     await context.close();
 
     // The invitee, in a fresh browser, sets a password and signs in.
-    const invitee = await newPage(browser);
-    await invitee.page.goto(`${server.url}${link}`);
+    const invitee = await env.newPage();
+    await invitee.page.goto(`${env.url}${link}`);
     await invitee.page.locator('input[name="password"]').fill(INVITEE_PASSWORD);
     await invitee.page.locator('input[name="confirm"]').fill(INVITEE_PASSWORD);
     await invitee.page.getByRole('button', { name: 'Save password' }).click();
     await invitee.page.locator('[data-test="password-set"]').waitFor();
-    await invitee.page.goto(`${server.url}/studies`);
+    await invitee.page.goto(`${env.url}/studies`);
     await invitee.page.waitForURL(/\/sign-in/);
     await invitee.page.locator('input[name="email"]').fill(INVITEE);
     await invitee.page.locator('input[name="password"]').fill(INVITEE_PASSWORD);
@@ -71,8 +58,7 @@ describe('administration in the browser', () => {
   });
 
   it('an admin registers a rig, sees its key once, and retires it', async () => {
-    const { context, page } = await newPage(browser);
-    await signInThroughUi(page, server.url, ADMIN, '/rigs');
+    const { context, page } = await env.signedInPage(ADMIN, '/rigs');
 
     await page.locator('[data-test="register-rig"]').click();
     const dialog = page.getByRole('dialog', { name: 'Register a rig' });
@@ -99,8 +85,8 @@ describe('administration in the browser', () => {
   });
 
   it('the about page cites the example dataset without signing in', async () => {
-    const { context, page } = await newPage(browser);
-    await page.goto(`${server.url}/about`);
+    const { context, page } = await env.newPage();
+    await page.goto(`${env.url}/about`);
     await page.getByRole('heading', { name: 'Example data' }).waitFor();
     const text = await page.locator('main').innerText();
     // Citations required by the dataset's licence (../shared/data/eegmmidb/README.md).

@@ -7,6 +7,7 @@ import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
 import { start, type ServerHandle, type StartOptions } from '../../server/index';
 
 const ROOT = fileURLToPath(new URL('../..', import.meta.url));
@@ -68,6 +69,61 @@ export async function signInThroughUi(page: Page, baseUrl: string, email: string
   await page.locator('input[name="password"]').fill(DEMO_PASSWORD);
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.waitForURL((u) => u.pathname === path);
+}
+
+/** A page of its own (see newPage). */
+export type TestPage = Awaited<ReturnType<typeof newPage>>;
+
+/** What a browser-test file works with: its server, its browser, and fresh pages in them. */
+export interface BrowserTestEnv {
+  readonly server: TestServer;
+  readonly browser: Browser;
+  /** The server's base URL. */
+  readonly url: string;
+  /** A fresh context and page (newPage). */
+  newPage(): Promise<TestPage>;
+  /** A fresh context and page, signed in as `email` through the UI and left at `path`. */
+  signedInPage(email: string, path?: string): Promise<TestPage>;
+}
+
+/**
+ * The set-up every browser-test file shares, registered in the calling describe: before its tests
+ * a server (startTestServer with `options`) and a browser start; after them both stop.
+ */
+export function useBrowserTestEnv(options: Omit<StartOptions, 'port' | 'dataDir'> = {}): BrowserTestEnv {
+  let server: TestServer | undefined;
+  let browser: Browser | undefined;
+
+  beforeAll(async () => {
+    server = await startTestServer(options);
+    browser = await launchBrowser();
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+
+  const env: BrowserTestEnv = {
+    get server() {
+      if (!server) throw new Error('The test server has not started');
+      return server;
+    },
+    get browser() {
+      if (!browser) throw new Error('The browser has not started');
+      return browser;
+    },
+    get url() {
+      return env.server.url;
+    },
+    newPage: () => newPage(env.browser),
+    async signedInPage(email, path = '/studies') {
+      const opened = await newPage(env.browser);
+      await signInThroughUi(opened.page, env.url, email, path);
+      return opened;
+    },
+  };
+  return env;
 }
 
 /** Where a test saves a screenshot: test-results/e2e/<name>.png (folder created). */

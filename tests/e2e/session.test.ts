@@ -4,9 +4,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import type { Page } from 'playwright-core';
 import { DEMO_STUDY } from '../../server/services/seed';
-import { launchBrowser, newPage, screenshotPath, signInThroughUi, startTestServer, type TestServer } from './helpers';
+import { screenshotPath, useBrowserTestEnv } from './helpers';
 
 // Demo accounts and data seeded on first start (server/services/seed.ts): the demo study, its
 // participant P-001 with consent given, and the demo rig served by the embedded simulator.
@@ -33,13 +33,10 @@ async function choose(page: Page, field: string, option: string): Promise<void> 
 }
 
 describe('a pilot session in the browser', () => {
-  let server: TestServer;
-  let browser: Browser;
+  const env = useBrowserTestEnv({ demoDecoder: false });
   let files: string;
 
   beforeAll(async () => {
-    server = await startTestServer({ demoDecoder: false });
-    browser = await launchBrowser();
     files = mkdtempSync(join(tmpdir(), 'aftercue-e2e-model-'));
     // 300 s of the demo profile (about 40 cues) and the covariance recipe with 3 outer folds.
     aftercue('simulate', '--profile', 'simulator/profiles/demo-hand-imagery.json', '--out', join(files, 'calibration.edf'),
@@ -50,14 +47,11 @@ describe('a pilot session in the browser', () => {
   });
 
   afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
     if (files) rmSync(files, { recursive: true, force: true });
   });
 
   it('an investigator imports a decoder artifact and freezes it', async () => {
-    const { context, page, consoleErrors } = await newPage(browser);
-    await signInThroughUi(page, server.url, INVESTIGATOR);
+    const { context, page, consoleErrors } = await env.signedInPage(INVESTIGATOR);
     await page.locator('.study-table .el-table__row', { hasText: DEMO_STUDY.name }).click();
     await page.locator('[data-test="study-decoders"]').click();
     await page.waitForURL(/\/studies\/\d+\/decoders$/);
@@ -93,8 +87,7 @@ describe('a pilot session in the browser', () => {
   });
 
   it('an experimenter uploads a calibration recording, trains a decoder and lands on it', async () => {
-    const { context, page, consoleErrors } = await newPage(browser);
-    await signInThroughUi(page, server.url, EXPERIMENTER);
+    const { context, page, consoleErrors } = await env.signedInPage(EXPERIMENTER);
     await page.locator('.study-table .el-table__row', { hasText: DEMO_STUDY.name }).click();
     await page.locator('[data-test="study-decoders"]').click();
     await page.waitForURL(/\/studies\/\d+\/decoders$/);
@@ -128,8 +121,7 @@ describe('a pilot session in the browser', () => {
   }, 200_000);
 
   it('an experimenter runs a session: predictions arrive, accuracy updates, the participant sees cue and feedback', async () => {
-    const { context, page, consoleErrors } = await newPage(browser);
-    await signInThroughUi(page, server.url, EXPERIMENTER, '/sessions');
+    const { context, page, consoleErrors } = await env.signedInPage(EXPERIMENTER, '/sessions');
 
     // Set up the session: demo study, P-001, demo rig, the frozen decoder.
     await page.locator('[data-test="new-session"]').click();
@@ -165,7 +157,7 @@ describe('a pilot session in the browser', () => {
     // Link form: shared/api/sessions.ts displayLinkSchema ('/display/<token>').
     expect(url).toMatch(/\/display\/[^/\s]+$/);
     await page.getByRole('dialog', { name: 'Participant display' }).getByRole('button', { name: 'Done' }).click();
-    const participant = await newPage(browser);
+    const participant = await env.newPage();
     await participant.page.goto(url);
     await participant.page.locator('[data-test="participant-display"][data-phase="cue"]').waitFor({ timeout: 30_000 });
     await participant.page.screenshot({ path: screenshotPath('display-cue') });
@@ -194,8 +186,7 @@ describe('a pilot session in the browser', () => {
     await context.close();
 
     // A reviewer sees the same console read-only (shared/api/roles.ts: session:read without session:run).
-    const reviewer = await newPage(browser);
-    await signInThroughUi(reviewer.page, server.url, REVIEWER, new URL(consoleUrl).pathname);
+    const reviewer = await env.signedInPage(REVIEWER, new URL(consoleUrl).pathname);
     await reviewer.page.locator('[data-test="trial-row"]').nth(1).waitFor();
     expect(await reviewer.page.locator('[data-test="start"], [data-test="stop"], [data-test="display-link"]').count()).toBe(0);
     expect(await reviewer.page.locator('.trials__switch input:not([disabled])').count()).toBe(0);

@@ -1,6 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { launchBrowser, newPage, screenshotPath, signInThroughUi, startTestServer, type TestServer } from './helpers';
+import { describe, expect, it } from 'vitest';
+import { screenshotPath, signInThroughUi, useBrowserTestEnv } from './helpers';
 
 // Demo accounts seeded on first start (server/services/seed.ts DEMO_ACCOUNTS).
 const INVESTIGATOR = 'investigator@aftercue.test';
@@ -8,26 +7,15 @@ const REVIEWER = 'reviewer@aftercue.test';
 const STUDY_NAME = 'Left versus right hand imagery, browser test';
 
 describe('studies in the browser', () => {
-  let server: TestServer;
-  let browser: Browser;
-
-  beforeAll(async () => {
-    server = await startTestServer();
-    browser = await launchBrowser();
-  });
-
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const env = useBrowserTestEnv();
 
   it('an investigator creates a study and adds a participant through the UI', async () => {
-    const { context, page, consoleErrors } = await newPage(browser);
-    await page.goto(`${server.url}/sign-in`);
+    const { context, page, consoleErrors } = await env.newPage();
+    await page.goto(`${env.url}/sign-in`);
     await page.getByRole('heading', { name: 'Sign in' }).waitFor();
     await page.screenshot({ path: screenshotPath('sign-in') });
 
-    await signInThroughUi(page, server.url, INVESTIGATOR);
+    await signInThroughUi(page, env.url, INVESTIGATOR);
     await page.getByRole('heading', { name: 'Studies' }).waitFor();
 
     // Create a study through the form.
@@ -82,8 +70,7 @@ describe('studies in the browser', () => {
   });
 
   it('a reviewer sees studies but no button to create or change them', async () => {
-    const { context, page } = await newPage(browser);
-    await signInThroughUi(page, server.url, REVIEWER);
+    const { context, page } = await env.signedInPage(REVIEWER);
     // The seeded demo study (server/services/seed.ts) is listed for every role with study:read.
     await page.locator('.study-table .el-table__row').first().waitFor();
     // shared/api/roles.ts: study:create is admin and investigator only.
@@ -96,7 +83,7 @@ describe('studies in the browser', () => {
     expect(await page.locator('[data-test="edit-study"], [data-test="archive-study"], [data-test="add-participant"]').count()).toBe(0);
 
     // Admin pages are refused by the guard.
-    await page.goto(`${server.url}/admin/users`);
+    await page.goto(`${env.url}/admin/users`);
     await page.waitForURL(/\/forbidden/);
     await context.close();
   });
