@@ -101,10 +101,11 @@ describe('activation patterns of a component-tf decoder (Haufe et al. 2014)', ()
   });
 
   it('puts the activation-pattern peaks in the training report when given the training epochs', () => {
-    const args = [fx.fp as never, 'component-tf', ['left', 'right'], fx.artifact.channelNames, fx.plan.window, fx.artifact.sampleRateHz,
-                  fx.plan.settings.morlet as MorletFeatureParams, true] as const;
-    const withData = describeFinalModel(...args, fx.train).selectedComponents!;
-    const bare = describeFinalModel(...args).selectedComponents!;
+    const classes: [string, string] = ['left', 'right'];
+    const run = (epochs?: typeof fx.train) => describeFinalModel(fx.fp as never, 'component-tf', classes, fx.artifact.channelNames, fx.plan.window,
+      fx.artifact.sampleRateHz, fx.plan.settings.morlet as MorletFeatureParams, true, epochs).selectedComponents!;
+    const withData = run(fx.train);
+    const bare = run();
     const interp = interpretDecoder(fx.artifact, 1, { epochs: fx.train });
     if (interp.recipe !== 'component-tf') throw new Error('expected component-tf');
     // Source: summary.ts module comment (peaks from interpret.ts: the pattern's with training epochs, else the weights').
