@@ -6,7 +6,7 @@
  * recipes and both baselines on the same folds; plus the later-run check: fit on R04 + R08,
  * replay R12 through the frozen decoder's live stream (predictRecording).
  *
- * Run: npx tsx bench/eegmmidb.ts [--subjects S001,S002] [--repeats 5] [--recipes covariance,component-tf] [--json] [--no-later]
+ * Run: npx tsx bench/eegmmidb.ts [--subjects S001,S002] [--repeats 5] [--recipes covariance,component-tf] [--json] [--no-later] [--no-baselines]
  *        [--components N] (ICA components / covariance rank, as `aftercue train --components`) [--no-prior]
  *        [--csp-only]: only CSP + shrinkage LDA, causal (as the product filters) and zero-phase (as the
  *        reference protocol filters: Butterworth order 4, 8-30 Hz, forward-backward on the continuous run)
@@ -53,6 +53,7 @@ const json = process.argv.includes('--json');
 const later = !process.argv.includes('--no-later');
 const components = arg('--components') === undefined ? {} : { components: Number(arg('--components')) };
 const prior = !process.argv.includes('--no-prior');
+const withBaselines = !process.argv.includes('--no-baselines');
 
 function load(subject: string, run: string): Recording {
   return edfToRecording(readEdf(new Uint8Array(readFileSync(new URL(`${subject}${run}.edf`, DIR)))));
@@ -119,7 +120,7 @@ for (const subject of subjects) {
   const sourceNames = ['R04', 'R08', 'R12'].map((r) => `${subject}${r}.edf`);
   const row: Row = { subject, trials: 0, recipes: {}, cspLda: NaN, bandpowerLogreg: NaN, cspLaterRun: null };
   recipes.forEach((recipe, j) => {
-    const { report } = trainDecoder(runs, { recipe, classes: ['T1', 'T2'], folds: 10, inner: 5, repeats, seed: 0, baselines: j === 0, sourceNames,
+    const { report } = trainDecoder(runs, { recipe, classes: ['T1', 'T2'], folds: 10, inner: 5, repeats, seed: 0, baselines: withBaselines && j === 0, sourceNames,
                                           prior, ...components });
     row.trials = report.trials;
     if (report.baselines) { row.cspLda = report.baselines.cspLda.accuracy; row.bandpowerLogreg = report.baselines.bandpowerLogreg.accuracy; }
@@ -137,7 +138,7 @@ for (const subject of subjects) {
     process.stderr.write(`${subject} ${recipe}: ${report.nestedCvAccuracy.toFixed(3)} (cv ${report.timings.cvSeconds.toFixed(1)} s wall, ` +
       `${report.timings.cvCpuSeconds?.toFixed(1)} s cpu per ${repeats} repeat(s))${laterRun === null ? '' : `, later run ${laterRun.toFixed(3)}`}\n`);
   });
-  if (later) row.cspLaterRun = cspLaterRun(runs.slice(0, 2), runs[2]!);
+  if (later && withBaselines) row.cspLaterRun = cspLaterRun(runs.slice(0, 2), runs[2]!);
   rows.push(row);
 }
 const totalS = (performance.now() - t0) / 1000;
