@@ -1,5 +1,5 @@
-import { ref, shallowRef, type Ref } from 'vue';
-import { toApiError, type ApiError } from '../api/http';
+import { ref, type Ref } from 'vue';
+import { useLoadState } from './useLoadState';
 
 /**
  * Page-only list state: load with a fetcher, keep status and error, replace one row after an
@@ -7,19 +7,12 @@ import { toApiError, type ApiError } from '../api/http';
  */
 export function useAsyncList<T extends { id: number }>(fetcher: () => Promise<T[]>) {
   const items = ref([]) as Ref<T[]>;
-  const status = ref<'idle' | 'loading' | 'ready' | 'error'>('idle');
-  const error = shallowRef<ApiError | null>(null);
+  const { status, error, track } = useLoadState();
 
-  async function load(): Promise<void> {
-    status.value = 'loading';
-    error.value = null;
-    try {
+  function load(): Promise<void> {
+    return track(async () => {
       items.value = await fetcher();
-      status.value = 'ready';
-    } catch (e) {
-      error.value = toApiError(e);
-      status.value = 'error';
-    }
+    });
   }
 
   /** Put `row` in place of the row with its id, or append it. */

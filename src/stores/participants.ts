@@ -2,7 +2,7 @@ import { defineStore } from 'pinia';
 import { ref } from 'vue';
 import type { CreateParticipantRequest, Participant, UpdateParticipantRequest } from '@shared/api/participants';
 import { createParticipant, listParticipants, updateParticipant } from '../api/participants';
-import { toApiError, type ApiError } from '../api/http';
+import { useLoadState } from '../composables/useLoadState';
 
 /**
  * Participants of one study at a time (the study page, and later the session set-up, read it).
@@ -11,21 +11,14 @@ import { toApiError, type ApiError } from '../api/http';
 export const useParticipantsStore = defineStore('participants', () => {
   const studyId = ref<number | null>(null);
   const items = ref<Participant[]>([]);
-  const status = ref<'idle' | 'loading' | 'ready' | 'error'>('idle');
-  const error = ref<ApiError | null>(null);
+  const { status, error, track } = useLoadState();
 
-  async function load(forStudyId: number): Promise<void> {
+  function load(forStudyId: number): Promise<void> {
     if (studyId.value !== forStudyId) items.value = [];
     studyId.value = forStudyId;
-    status.value = 'loading';
-    error.value = null;
-    try {
+    return track(async () => {
       items.value = await listParticipants(forStudyId);
-      status.value = 'ready';
-    } catch (e) {
-      error.value = toApiError(e);
-      status.value = 'error';
-    }
+    });
   }
 
   function remember(p: Participant): Participant {

@@ -2,24 +2,17 @@ import { defineStore } from 'pinia';
 import { ref } from 'vue';
 import type { CreateRigRequest, CreateRigResponse, Rig, UpdateRigRequest } from '@shared/api/rigs';
 import { createRig, listRigs, updateRig } from '../api/rigs';
-import { toApiError, type ApiError } from '../api/http';
+import { useLoadState } from '../composables/useLoadState';
 
 /** Registered rigs (the rigs page now; pilot-session set-up later). The rig key is never stored here. */
 export const useRigsStore = defineStore('rigs', () => {
   const items = ref<Rig[]>([]);
-  const status = ref<'idle' | 'loading' | 'ready' | 'error'>('idle');
-  const error = ref<ApiError | null>(null);
+  const { status, error, track } = useLoadState();
 
-  async function load(): Promise<void> {
-    status.value = 'loading';
-    error.value = null;
-    try {
+  function load(): Promise<void> {
+    return track(async () => {
       items.value = await listRigs();
-      status.value = 'ready';
-    } catch (e) {
-      error.value = toApiError(e);
-      status.value = 'error';
-    }
+    });
   }
 
   function remember(rig: Rig): Rig {

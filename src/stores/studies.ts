@@ -2,9 +2,7 @@ import { defineStore } from 'pinia';
 import { ref } from 'vue';
 import type { CreateStudyRequest, Study, UpdateStudyRequest } from '@shared/api/studies';
 import { archiveStudy, createStudy, getStudy, listStudies, updateStudy, type StudyFilter } from '../api/studies';
-import { toApiError, type ApiError } from '../api/http';
-
-type LoadStatus = 'idle' | 'loading' | 'ready' | 'error';
+import { useLoadState } from '../composables/useLoadState';
 
 /**
  * Studies: the list (with its filter) and the study currently open. Mutations reject with
@@ -13,37 +11,23 @@ type LoadStatus = 'idle' | 'loading' | 'ready' | 'error';
 export const useStudiesStore = defineStore('studies', () => {
   const items = ref<Study[]>([]);
   const filter = ref<StudyFilter>({ includeArchived: false });
-  const status = ref<LoadStatus>('idle');
-  const error = ref<ApiError | null>(null);
+  const { status, error, track } = useLoadState();
 
   const current = ref<Study | null>(null);
-  const currentStatus = ref<LoadStatus>('idle');
-  const currentError = ref<ApiError | null>(null);
+  const { status: currentStatus, error: currentError, track: trackCurrent } = useLoadState();
 
-  async function load(next: StudyFilter = filter.value): Promise<void> {
+  function load(next: StudyFilter = filter.value): Promise<void> {
     filter.value = { ...next };
-    status.value = 'loading';
-    error.value = null;
-    try {
+    return track(async () => {
       items.value = await listStudies(filter.value);
-      status.value = 'ready';
-    } catch (e) {
-      error.value = toApiError(e);
-      status.value = 'error';
-    }
+    });
   }
 
-  async function open(studyId: number): Promise<void> {
+  function open(studyId: number): Promise<void> {
     if (current.value?.id !== studyId) current.value = null;
-    currentStatus.value = 'loading';
-    currentError.value = null;
-    try {
+    return trackCurrent(async () => {
       current.value = await getStudy(studyId);
-      currentStatus.value = 'ready';
-    } catch (e) {
-      currentError.value = toApiError(e);
-      currentStatus.value = 'error';
-    }
+    });
   }
 
   function remember(study: Study): Study {
