@@ -222,7 +222,7 @@ export function trainDecoder(recordings: Recording | readonly Recording[], opts:
   const finalClf = finalFits[0]!;
   const relative = (f: FittedTraceNormCv) => (f.search ? f.model.lambda / f.search.lambdaMax : NaN);
   const summary = describeFinalModel(final as never, plan.recipe, classes, channelNames, plan.window, fs,
-    plan.settings.morlet as MorletFeatureParams | undefined, (plan.settings.prior as boolean | undefined) ?? true);
+    plan.settings.morlet as MorletFeatureParams | undefined, (plan.settings.prior as boolean | undefined) ?? true, data.epochs);
   const report: TrainingReport = {
     recipe: plan.recipe, trials: n, trialsPerClass: counts, classes, channels: channelNames.length, sampleRateHz: fs,
     epochWindowS: [plan.window.tminS, plan.window.tmaxS], folds, inner, repeats, seed,
