@@ -157,7 +157,7 @@ export function decoderService(ctx: AppContext) {
         const newId = insertDecoderFrom(db, {
           studyId, name: input.name, source: 'import', createdBy: actor.id, artifactText: sealed.artifactText,
           sha256: sealed.sha256, facts: sealed.facts, report: input.report ?? null, figures,
-          interpretation: interpretArtifact(sealed.artifact),
+          interpretation: interpretArtifact(sealed.artifact, input.report ?? null),
         }, now);
         writeAudit(db, actor, { action: 'decoder.import', targetType: 'decoder', targetId: newId,
           details: { studyId, name: input.name, sha256: sealed.sha256 } }, now);

@@ -57,25 +57,51 @@ export function verifyArtifactText(text: string, sha256: string): void {
   if (!ok) throw new ArtifactCheckError('artifact-hash-mismatch', 'artifact.sha256', 'The stored artifact does not match its SHA-256 seal');
 }
 
-/** The interpretation in the API's shape (shared/api/decoders.ts), from shared/decoder/interpret. */
-export function interpretArtifact(a: DecoderArtifact): DecoderInterpretation {
+/** The activation-pattern part of a training report's selected component (shared/decoder/recipes/summary.ts). */
+interface ReportedProfile { index: number; peakSource?: string; frequencyProfile?: number[]; timeCourse?: number[]; peakFrequencyHz?: number; peakTimeS?: number }
+
+/** The report's activation-pattern profiles by component index (none when absent or malformed). */
+function reportedPatterns(report: Record<string, unknown> | null | undefined): Map<number, Required<ReportedProfile>> {
+  const out = new Map<number, Required<ReportedProfile>>();
+  const list = report?.selectedComponents;
+  if (!Array.isArray(list)) return out;
+  for (const c of list as ReportedProfile[]) {
+    if (c && c.peakSource === 'activation-pattern' && Number.isInteger(c.index) && Array.isArray(c.frequencyProfile) && Array.isArray(c.timeCourse)
+      && typeof c.peakFrequencyHz === 'number' && typeof c.peakTimeS === 'number') out.set(c.index, c as Required<ReportedProfile>);
+  }
+  return out;
+}
+
+/**
+ * The interpretation in the API's shape (shared/api/decoders.ts), from shared/decoder/interpret.
+ * An artifact holds no training data, so its own profiles are the weights'; a training report
+ * (REPORT.json, or the in-app training's) carries each selected component's activation pattern
+ * (Haufe et al. 2014), which then takes the profiles' place (`profileSource`).
+ */
+export function interpretArtifact(a: DecoderArtifact, report?: Record<string, unknown> | null): DecoderInterpretation {
   // Every non-zero singular value, so that `rank` is the component's rank.
   const i = interpretDecoder(a, Number.POSITIVE_INFINITY);
   if (i.recipe === 'covariance') {
     return { recipe: 'covariance', spatialPatterns: i.spatialPatterns.map((p) => ({
       channelNames: p.channelNames, values: p.pattern, eigenvalue: p.eigenvalue, filter: p.filter, favours: p.favours })) };
   }
-  return { recipe: 'component-tf', components: i.components.map((c) => ({
-    index: c.component,
-    plausibility: c.plausibility ?? Number.NaN,
-    priorWeight: c.priorWeight,
-    weightNorm: c.weightNorm,
-    rank: c.singularValues.length,
-    scalpMap: { channelNames: c.channelNames, values: c.map },
-    weights: { frequenciesHz: c.frequenciesHz, timesS: c.timesS, values: c.weights },
-    frequencyProfile: c.frequencyProfile,
-    timeCourse: c.timeCourse,
-    peakFrequencyHz: c.peakFrequencyHz,
-    peakTimeS: c.peakTimeS,
-  })) };
+  const patterns = reportedPatterns(report);
+  return { recipe: 'component-tf', components: i.components.map((c) => {
+    const p = patterns.get(c.component);
+    const ok = p !== undefined && p.frequencyProfile.length === c.frequenciesHz.length && p.timeCourse.length === c.timesS.length;
+    return {
+      index: c.component,
+      plausibility: c.plausibility ?? Number.NaN,
+      priorWeight: c.priorWeight,
+      weightNorm: c.weightNorm,
+      rank: c.singularValues.length,
+      scalpMap: { channelNames: c.channelNames, values: c.map },
+      weights: { frequenciesHz: c.frequenciesHz, timesS: c.timesS, values: c.weights },
+      profileSource: ok ? 'activation-pattern' as const : 'weights' as const,
+      frequencyProfile: ok ? p.frequencyProfile : c.weightFrequencyProfile,
+      timeCourse: ok ? p.timeCourse : c.weightTimeCourse,
+      peakFrequencyHz: ok ? p.peakFrequencyHz : c.weightPeakFrequencyHz,
+      peakTimeS: ok ? p.peakTimeS : c.weightPeakTimeS,
+    };
+  }) };
 }

@@ -39,9 +39,9 @@ export function fitDecoder(recordings: Recording[], o: TrainOptions, sourceNames
   }, (p) => { const d = describeProgress(p); onProgress(d.fraction, d.stage); });
   // Re-read what was sealed, exactly as an import would: the stored text is the canonical form.
   const sealed = readSealedArtifact(JSON.parse(JSON.stringify(artifact)) as unknown);
+  const plainReport = JSON.parse(JSON.stringify(report)) as Record<string, unknown>;
   return {
     artifactText: sealed.artifactText, sha256: sealed.sha256, facts: sealed.facts,
-    report: JSON.parse(JSON.stringify(report)) as Record<string, unknown>,
-    interpretation: interpretArtifact(sealed.artifact),
+    report: plainReport, interpretation: interpretArtifact(sealed.artifact, plainReport),
   };
 }

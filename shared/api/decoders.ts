@@ -98,9 +98,16 @@ export const componentInterpretationSchema = z.object({
     timesS: z.array(z.number()),
     values: z.array(z.array(z.number())), // [frequency][time]
   }),
-  /** Leading left singular vector of the weights (over frequenciesHz). */
+  /**
+   * Where frequencyProfile, timeCourse and the peaks come from: 'activation-pattern' (how the
+   * component's power moves with the decision on the training epochs, Haufe et al. 2014; only
+   * when the decoder was trained here or imported with its report) or 'weights' (the weight
+   * matrix's leading singular vectors: a filter, which may peak away from the effect).
+   */
+  profileSource: z.enum(['activation-pattern', 'weights']).default('weights'),
+  /** Leading left singular vector (over frequenciesHz) of the profile source. */
   frequencyProfile: z.array(z.number()),
-  /** Leading right singular vector of the weights (over timesS). */
+  /** Leading right singular vector (over timesS) of the profile source. */
   timeCourse: z.array(z.number()),
   peakFrequencyHz: z.number(),
   peakTimeS: z.number(),
