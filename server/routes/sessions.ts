@@ -1,6 +1,7 @@
 /**
  * /api/sessions: pilot sessions. Reading needs session:read; everything that changes a session
  * (create, start, pause, resume, stop, annotate, mark trials, display link) needs session:run.
+ * The gap review of a stopped session (JSON) needs session:read.
  */
 import { Router } from 'express';
 import {
@@ -8,9 +9,10 @@ import {
 } from '../../shared/api';
 import { actor, requirePermission } from '../http/guards';
 import { parseBody, parseId, parseQuery } from '../http/parse';
+import type { ReviewService } from '../services/review';
 import type { SessionService } from '../services/sessions';
 
-export function sessionsRouter(svc: SessionService): Router {
+export function sessionsRouter(svc: SessionService & { review: ReviewService }): Router {
   const r = Router();
   const id = (v: string | string[] | undefined) => parseId(v, 'Session');
 
@@ -59,6 +61,10 @@ export function sessionsRouter(svc: SessionService): Router {
     const { csv, fileName } = await svc.trialsCsv(id(req.params.sessionId));
     res.setHeader('Content-Disposition', `attachment; filename="${fileName}"`);
     res.type('text/csv').send(csv);
+  });
+
+  r.get('/:sessionId/review', requirePermission('session:read'), async (req, res) => {
+    res.json(await svc.review.get(id(req.params.sessionId)));
   });
 
   r.patch('/:sessionId/trials/:trialId', requirePermission('session:run'), async (req, res) => {

@@ -8,6 +8,7 @@ import { authService } from './auth';
 import { outboxService } from './outbox';
 import { participantService } from './participants';
 import { recordingService } from './recordings';
+import { reviewService } from './review';
 import { rigService } from './rigs';
 import { sessionService } from './sessions';
 import { studyService } from './studies';
@@ -19,7 +20,8 @@ export function createServices(ctx: AppContext) {
   const live = LiveEngine.create(ctx, { loadDecoder: defaultDecoderLoader });
   return {
     live,
-    sessions: sessionService(ctx, live),
+    // The gap review rides on the sessions service (its routes live under /api/sessions/:id/review).
+    sessions: { ...sessionService(ctx, live), review: reviewService(ctx, live) },
     auth: authService(ctx),
     users: userService(ctx),
     rigs: rigService(ctx),

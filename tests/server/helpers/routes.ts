@@ -64,6 +64,8 @@ export const ROUTES: readonly RouteCase[] = [
   { method: 'PATCH', pattern: '/api/studies/:studyId/participants/:participantId', sample: '/api/studies/1/participants/1', body: {},
     access: RECORDING_STAFF },
   ...SESSION_ROUTES,
+  // Gap review: session:read (every role) reads it.
+  { method: 'GET', pattern: '/api/sessions/:sessionId/review', sample: '/api/sessions/999/review', access: ALL },
 
   // Issue 6 contract: decoder:read, study:read all; decoder:import, recording:upload, training:run investigator+experimenter+admin;
   // decoder:freeze investigator+admin.

@@ -1,0 +1,71 @@
+/**
+ * The gap review of a stopped pilot session (shared/api/review.ts): gathers the stored rows
+ * (session, trials, feed rate, the decoder's training report) and hands them to the pure
+ * computation in shared/review/gap-review.ts. The PDF and the mail to the investigator build on
+ * the same review (review-pdf.ts, review-mail.ts).
+ */
+import type { GapReview } from '../../shared/api/review';
+import { computeGapReview, type OfflineInput, type ReviewTrial } from '../../shared/review/gap-review';
+import { findFeedById } from '../db/queries/feed';
+import { findDecoder, findPilotSession, listTrials } from '../db/queries/pilot-sessions';
+import type { DecoderRow } from '../db/schema';
+import type { AppContext } from '../context';
+import { AppError, notFound } from '../errors';
+import type { LiveEngine } from '../live/engine';
+
+/** The caution every review carries (DESIGN.md, "Cautions the product shows"). */
+export const REVIEW_CAUTION = 'Research use only. Not a medical device; not for diagnostic or clinical decisions.';
+
+const num = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
+
+/**
+ * The decoder's nested-CV figures: the training report's nestedCvAccuracy, trials and
+ * foldAccuracies, else the headline metrics (cvAccuracy, trials) without folds; null without both.
+ */
+export function offlineInputOf(d: Pick<DecoderRow, 'report' | 'metrics'>): OfflineInput | null {
+  const r = d.report ?? {}, m = d.metrics;
+  const accuracy = num(r.nestedCvAccuracy) ?? num(m.cvAccuracy);
+  const trials = num(r.trials) ?? num(m.trials);
+  if (accuracy === null || trials === null || !Number.isInteger(trials) || trials < 1) return null;
+  const folds = Array.isArray(r.foldAccuracies) ? r.foldAccuracies.filter((v): v is number => num(v) !== null) : [];
+  return { accuracy, trials, foldAccuracies: folds };
+}
+
+export function reviewService(ctx: AppContext, engine: LiveEngine) {
+  const { db } = ctx;
+
+  return {
+    /** The review; 404 unknown session, 409 'session-not-stopped' before it stopped. */
+    async get(sessionId: number): Promise<GapReview> {
+      const s = findPilotSession(db, sessionId);
+      if (!s) throw notFound('Session');
+      if (s.status !== 'stopped') {
+        throw new AppError('session-not-stopped', 'The gap review is available once the session has stopped', 409);
+      }
+      await engine.store.flush();
+      const decoder = findDecoder(db, s.decoderId)!;
+      const classIndex = new Map(decoder.classes.map((c, i) => [c, i]));
+      const rows = listTrials(db, sessionId).sort((a, b) => a.sampleIndex - b.sampleIndex || a.cueId - b.cueId);
+      const trials: ReviewTrial[] = rows.map((t) => ({
+        onsetS: t.onsetS, trueClass: t.trueClass === null ? null : classIndex.get(t.trueClass) ?? null,
+        predictedClass: classIndex.get(t.predictedClass) ?? -1, probabilities: t.probabilities, flags: t.flags, markedBad: t.markedBad,
+        totalLatencyMs: t.latency.totalMs,
+      }));
+      const feed = s.feedId !== null ? findFeedById(db, s.feedId) : undefined;
+      const rate = feed?.sampleRateHz ?? null;
+      const durationS = rate && s.startSample !== null && s.stopSample !== null ? (s.stopSample - s.startSample) / rate
+        : s.startedAt && s.stoppedAt ? (s.stoppedAt.getTime() - s.startedAt.getTime()) / 1000 : null;
+      const core = computeGapReview({
+        classes: decoder.classes, trials, offline: offlineInputOf(decoder), droppedSamples: s.droppedSamples, gapCount: s.gapCount,
+        sampleRateHz: rate, durationS, epochEndS: decoder.epochEndS,
+      });
+      return {
+        sessionId: s.id, studyId: s.studyId, studyName: s.studyName, participantCode: s.participantCode, rigName: s.rigName,
+        decoderId: s.decoderId, decoderName: s.decoderName, decoderSha256: s.decoderSha256, classes: decoder.classes,
+        startedAt: s.startedAt?.toISOString() ?? null, stoppedAt: s.stoppedAt?.toISOString() ?? null,
+        generatedAt: ctx.now().toISOString(), ...core, caution: REVIEW_CAUTION,
+      };
+    },
+  };
+}
+export type ReviewService = ReturnType<typeof reviewService>;
