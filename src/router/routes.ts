@@ -62,6 +62,13 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Session console', permission: 'session:read' },
   },
   {
+    path: '/sessions/:sessionId(\\d+)/review',
+    name: 'session-review',
+    component: () => import('../views/SessionReviewView.vue'),
+    props: (route) => ({ sessionId: Number(route.params.sessionId) }),
+    meta: { title: 'Gap review', permission: 'session:read' },
+  },
+  {
     // The participant's screen: no account, a one-time token bound to one session.
     path: '/display/:token',
     name: 'display',
