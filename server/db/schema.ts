@@ -102,6 +102,16 @@ export const mailOutbox = sqliteTable('mail_outbox', {
   receivedAt: integer('received_at', { mode: 'timestamp_ms' }).notNull(),
 }, (t) => [index('mail_outbox_received_idx').on(t.receivedAt)]);
 
+/** Files attached to an outbox message (e.g. a gap review PDF), as the in-process SMTP server received them. */
+export const mailAttachments = sqliteTable('mail_attachments', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  mailId: integer('mail_id').notNull().references(() => mailOutbox.id, { onDelete: 'cascade' }),
+  fileName: text('file_name').notNull(),
+  contentType: text('content_type').notNull(),
+  size: integer('size').notNull(),
+  content: blob('content', { mode: 'buffer' }).notNull(),
+}, (t) => [index('mail_attachments_mail_idx').on(t.mailId)]);
+
 export const auditLog = sqliteTable('audit_log', {
   id: integer('id').primaryKey({ autoIncrement: true }),
   at: integer('at', { mode: 'timestamp_ms' }).notNull(),
@@ -367,6 +377,7 @@ export type ParticipantRow = typeof participants.$inferSelect;
 export type RigRow = typeof rigs.$inferSelect;
 export type PasswordTokenRow = typeof passwordTokens.$inferSelect;
 export type MailRow = typeof mailOutbox.$inferSelect;
+export type MailAttachmentRow = typeof mailAttachments.$inferSelect;
 export type AuditRow = typeof auditLog.$inferSelect;
 export type RecordingRow = typeof recordings.$inferSelect;
 export type RecordingCueRow = typeof recordingCues.$inferSelect;

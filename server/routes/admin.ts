@@ -22,5 +22,10 @@ export function outboxRouter(svc: OutboxService): Router {
   r.get('/:mailId', requirePermission('outbox:read'), (req, res) => {
     res.json(svc.get(parseId(req.params.mailId, 'Message')));
   });
+  r.get('/:mailId/attachments/:attachmentId', requirePermission('outbox:read'), (req, res) => {
+    const a = svc.attachment(parseId(req.params.mailId, 'Message'), parseId(req.params.attachmentId, 'Attachment'));
+    res.setHeader('Content-Disposition', `attachment; filename="${a.fileName.replace(/["\\\r\n]/g, '_')}"`);
+    res.type(a.contentType).send(a.content);
+  });
   return r;
 }

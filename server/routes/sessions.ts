@@ -1,7 +1,7 @@
 /**
  * /api/sessions: pilot sessions. Reading needs session:read; everything that changes a session
  * (create, start, pause, resume, stop, annotate, mark trials, display link) needs session:run.
- * The gap review of a stopped session (JSON) needs session:read.
+ * The gap review of a stopped session (JSON, PDF) needs session:read; mailing it to the investigator session:run.
  */
 import { Router } from 'express';
 import {
@@ -65,6 +65,14 @@ export function sessionsRouter(svc: SessionService & { review: ReviewService }):
 
   r.get('/:sessionId/review', requirePermission('session:read'), async (req, res) => {
     res.json(await svc.review.get(id(req.params.sessionId)));
+  });
+  r.get('/:sessionId/review.pdf', requirePermission('session:read'), async (req, res) => {
+    const { pdf, fileName } = await svc.review.pdf(id(req.params.sessionId));
+    res.setHeader('Content-Disposition', `attachment; filename="${fileName}"`);
+    res.type('application/pdf').send(pdf);
+  });
+  r.post('/:sessionId/review/mail', requirePermission('session:run'), async (req, res) => {
+    res.status(201).json(await svc.review.mail(id(req.params.sessionId), actor(req)));
   });
 
   r.patch('/:sessionId/trials/:trialId', requirePermission('session:run'), async (req, res) => {

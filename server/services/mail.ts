@@ -9,14 +9,23 @@ import { simpleParser, type AddressObject } from 'mailparser';
 import nodemailer, { type Transporter } from 'nodemailer';
 import { SMTPServer } from 'smtp-server';
 import type { Db } from '../db/client';
-import { insertMail } from '../db/queries/outbox';
+import { insertMail, insertMailAttachment } from '../db/queries/outbox';
 import type { Logger } from '../log';
+
+/** A file sent with a message. */
+export interface MailAttachment {
+  fileName: string;
+  contentType: string;
+  content: Buffer;
+}
 
 export interface MailMessage {
   to: string;
   subject: string;
   text: string;
   html?: string;
+  /** Files attached (the outbox keeps them). */
+  attachments?: MailAttachment[];
 }
 
 export interface MailService {
@@ -42,15 +51,21 @@ function startSmtpServer(db: Db, log: Logger): Promise<SMTPServer> {
     size: MAX_MESSAGE_BYTES,
     onData(stream, _session, callback) {
       simpleParser(stream).then((parsed) => {
-        insertMail(db, {
-          messageId: parsed.messageId ?? null,
-          fromAddress: addressText(parsed.from),
-          toAddress: addressText(parsed.to),
-          subject: parsed.subject ?? '',
-          textBody: parsed.text ?? '',
-          htmlBody: typeof parsed.html === 'string' ? parsed.html : null,
-          transport: 'in-process',
-          receivedAt: new Date(),
+        db.transaction(() => {
+          const mailId = insertMail(db, {
+            messageId: parsed.messageId ?? null,
+            fromAddress: addressText(parsed.from),
+            toAddress: addressText(parsed.to),
+            subject: parsed.subject ?? '',
+            textBody: parsed.text ?? '',
+            htmlBody: typeof parsed.html === 'string' ? parsed.html : null,
+            transport: 'in-process',
+            receivedAt: new Date(),
+          });
+          for (const a of parsed.attachments) {
+            insertMailAttachment(db, { mailId, fileName: a.filename ?? 'attachment', contentType: a.contentType, size: a.content.length,
+              content: a.content });
+          }
         });
         callback();
       }, (err: Error) => { log.error('in-process SMTP server could not store a message', err); callback(err); });
@@ -73,11 +88,17 @@ export async function createMailService(opts: { db: Db; log: Logger; from: strin
     : nodemailer.createTransport({ host: '127.0.0.1', port: smtpPort!, secure: false, ignoreTLS: true });
 
   async function sendMail(msg: MailMessage): Promise<{ messageId: string }> {
-    const info = await transport.sendMail({ from, to: msg.to, subject: msg.subject, text: msg.text, html: msg.html });
+    const attachments = (msg.attachments ?? []).map((a) => ({ filename: a.fileName, contentType: a.contentType, content: a.content }));
+    const info = await transport.sendMail({ from, to: msg.to, subject: msg.subject, text: msg.text, html: msg.html, attachments });
     if (smtpUrl) {
-      insertMail(db, {
-        messageId: info.messageId, fromAddress: from, toAddress: msg.to, subject: msg.subject, textBody: msg.text,
-        htmlBody: msg.html ?? null, transport: 'relay', receivedAt: new Date(),
+      db.transaction(() => {
+        const mailId = insertMail(db, {
+          messageId: info.messageId, fromAddress: from, toAddress: msg.to, subject: msg.subject, textBody: msg.text,
+          htmlBody: msg.html ?? null, transport: 'relay', receivedAt: new Date(),
+        });
+        for (const a of msg.attachments ?? []) {
+          insertMailAttachment(db, { mailId, fileName: a.fileName, contentType: a.contentType, size: a.content.length, content: a.content });
+        }
       });
     }
     return { messageId: info.messageId };

@@ -4,14 +4,19 @@
  * computation in shared/review/gap-review.ts. The PDF and the mail to the investigator build on
  * the same review (review-pdf.ts, review-mail.ts).
  */
-import type { GapReview } from '../../shared/api/review';
+import type { GapReview, ReviewMailResult } from '../../shared/api/review';
 import { computeGapReview, type OfflineInput, type ReviewTrial } from '../../shared/review/gap-review';
 import { findFeedById } from '../db/queries/feed';
 import { findDecoder, findPilotSession, listTrials } from '../db/queries/pilot-sessions';
 import type { DecoderRow } from '../db/schema';
-import type { AppContext } from '../context';
+import { findStudy } from '../db/queries/studies';
+import { findUserById } from '../db/queries/users';
+import type { Actor, AppContext } from '../context';
 import { AppError, notFound } from '../errors';
 import type { LiveEngine } from '../live/engine';
+import { writeAudit } from './audit';
+import { reviewMail } from './review-mail';
+import { reviewPdf } from './review-pdf';
 
 /** The caution every review carries (DESIGN.md, "Cautions the product shows"). */
 export const REVIEW_CAUTION = 'Research use only. Not a medical device; not for diagnostic or clinical decisions.';
@@ -34,7 +39,7 @@ export function offlineInputOf(d: Pick<DecoderRow, 'report' | 'metrics'>): Offli
 export function reviewService(ctx: AppContext, engine: LiveEngine) {
   const { db } = ctx;
 
-  return {
+  const svc = {
     /** The review; 404 unknown session, 409 'session-not-stopped' before it stopped. */
     async get(sessionId: number): Promise<GapReview> {
       const s = findPilotSession(db, sessionId);
@@ -66,6 +71,31 @@ export function reviewService(ctx: AppContext, engine: LiveEngine) {
         generatedAt: ctx.now().toISOString(), ...core, caution: REVIEW_CAUTION,
       };
     },
+
+    /** The review as a PDF and its file name (same refusals as `get`). */
+    async pdf(sessionId: number): Promise<{ pdf: Buffer; fileName: string }> {
+      const r = await svc.get(sessionId);
+      return { pdf: await reviewPdf(r), fileName: `session-${r.sessionId}-gap-review.pdf` };
+    },
+
+    /**
+     * Mails the review with its PDF to the study's investigator (the study's owner); audited as
+     * 'session.review-mail'. 409 'no-investigator' when the owner's account is disabled or gone.
+     */
+    async mail(sessionId: number, actor: Actor): Promise<ReviewMailResult> {
+      const r = await svc.get(sessionId);
+      const study = findStudy(db, r.studyId);
+      const owner = study ? findUserById(db, study.createdBy) : undefined;
+      if (!owner || owner.disabled) {
+        throw new AppError('no-investigator', "The study's investigator has no active account to send the review to", 409);
+      }
+      const msg = reviewMail(r, owner, `${ctx.publicUrl}/sessions/${r.sessionId}/review`, actor.displayName, await reviewPdf(r));
+      const { messageId } = await ctx.mail.sendMail(msg);
+      writeAudit(db, actor, { action: 'session.review-mail', targetType: 'pilot-session', targetId: r.sessionId,
+        details: { to: owner.email, messageId } }, ctx.now());
+      return { to: owner.email, subject: msg.subject, messageId };
+    },
   };
+  return svc;
 }
 export type ReviewService = ReturnType<typeof reviewService>;

@@ -18,8 +18,19 @@ export const outboxSummarySchema = z.object({
 export type OutboxSummary = z.infer<typeof outboxSummarySchema>;
 
 /** GET /api/outbox/:mailId -> 200: the full message. */
+/** A file sent with a message; GET /api/outbox/:mailId/attachments/:attachmentId downloads it. */
+export const outboxAttachmentSchema = z.object({
+  id: idSchema,
+  fileName: z.string(),
+  contentType: z.string(),
+  /** Bytes. */
+  size: z.number().int(),
+});
+export type OutboxAttachment = z.infer<typeof outboxAttachmentSchema>;
+
 export const outboxMessageSchema = outboxSummarySchema.extend({
   text: z.string(),
   html: z.string().optional(),
+  attachments: z.array(outboxAttachmentSchema),
 });
 export type OutboxMessage = z.infer<typeof outboxMessageSchema>;

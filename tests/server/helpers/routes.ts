@@ -28,6 +28,7 @@ const ALL: readonly Role[] = ['admin', 'investigator', 'experimenter', 'reviewer
 const ADMIN: readonly Role[] = ['admin'];
 const STUDY_OWNERS: readonly Role[] = ['admin', 'investigator'];
 const RECORDING_STAFF: readonly Role[] = ['admin', 'investigator', 'experimenter'];
+const STUDY_OWNERS_AND_RUNNERS: readonly Role[] = ['admin', 'investigator', 'experimenter'];
 
 // Sources for "allowed roles": the foundation issue's permission list (study:read all;
 // study:create/edit/archive investigator+admin; participant:* investigator+experimenter+admin;
@@ -52,6 +53,7 @@ export const ROUTES: readonly RouteCase[] = [
   { method: 'GET', pattern: '/api/audit', sample: '/api/audit?limit=5&offset=0', access: ADMIN },
   { method: 'GET', pattern: '/api/outbox', sample: '/api/outbox', access: ADMIN },
   { method: 'GET', pattern: '/api/outbox/:mailId', sample: '/api/outbox/999', access: ADMIN },
+  { method: 'GET', pattern: '/api/outbox/:mailId/attachments/:attachmentId', sample: '/api/outbox/999/attachments/1', access: ADMIN },
 
   { method: 'GET', pattern: '/api/studies', sample: '/api/studies?includeArchived=true', access: ALL },
   { method: 'POST', pattern: '/api/studies', sample: '/api/studies', body: {}, access: STUDY_OWNERS },
@@ -66,6 +68,9 @@ export const ROUTES: readonly RouteCase[] = [
   ...SESSION_ROUTES,
   // Gap review: session:read (every role) reads it.
   { method: 'GET', pattern: '/api/sessions/:sessionId/review', sample: '/api/sessions/999/review', access: ALL },
+  { method: 'GET', pattern: '/api/sessions/:sessionId/review.pdf', sample: '/api/sessions/999/review.pdf', access: ALL },
+  // Mailing the review: session:run (investigator, experimenter, admin).
+  { method: 'POST', pattern: '/api/sessions/:sessionId/review/mail', sample: '/api/sessions/999/review/mail', access: STUDY_OWNERS_AND_RUNNERS },
 
   // Issue 6 contract: decoder:read, study:read all; decoder:import, recording:upload, training:run investigator+experimenter+admin;
   // decoder:freeze investigator+admin.

@@ -45,3 +45,47 @@ describe('GET /api/sessions/:id/review', () => {
     await reviewer.get('/api/sessions/99999/review').expect(404);
   });
 });
+
+describe('review PDF and mail', () => {
+  it('serves the review as a PDF', async () => {
+    const res = await reviewer.get(`/api/sessions/${stopped}/review.pdf`).buffer(true)
+      .parse((r, cb) => { const parts: Buffer[] = []; r.on('data', (c: Buffer) => parts.push(c)); r.on('end', () => cb(null, Buffer.concat(parts))); })
+      .expect(200);
+    // Source: PDF 32000-1:2008 §7.5.2 (a PDF file begins with the header %PDF-).
+    expect((res.body as Buffer).subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    expect(res.headers['content-type']).toMatch(/application\/pdf/);
+  });
+
+  it('mails it to the study investigator with the PDF attached, and audits it', async () => {
+    const experimenter = await signIn(h, EMAILS.experimenter);
+    const res = await experimenter.post(`/api/sessions/${stopped}/review/mail`).expect(201);
+    // Source: the seeded demo study is created by the investigator account (server/services/seed.ts).
+    expect(res.body.to).toBe(EMAILS.investigator);
+    const admin = await signIn(h, EMAILS.admin);
+    const list = (await admin.get('/api/outbox').expect(200)).body as Array<{ id: number; to: string; subject: string }>;
+    const mail = list.find((m) => m.subject === res.body.subject)!;
+    const full = (await admin.get(`/api/outbox/${mail.id}`).expect(200)).body as { to: string; text: string;
+      attachments: Array<{ id: number; fileName: string; contentType: string; size: number }> };
+    // Source: the brief: the mail lands in the outbox with the PDF attached.
+    expect(full.to).toContain(EMAILS.investigator);
+    expect(full.text).toContain('Change over the session: Likely');
+    expect(full.attachments).toHaveLength(1);
+    expect(full.attachments[0]).toMatchObject({ fileName: `session-${stopped}-gap-review.pdf`, contentType: 'application/pdf' });
+    const file = await admin.get(`/api/outbox/${mail.id}/attachments/${full.attachments[0]!.id}`).buffer(true)
+      .parse((r, cb) => { const parts: Buffer[] = []; r.on('data', (c: Buffer) => parts.push(c)); r.on('end', () => cb(null, Buffer.concat(parts))); })
+      .expect(200);
+    // Source: PDF 32000-1:2008 §7.5.2 header; the stored size matches the bytes served.
+    expect((file.body as Buffer).subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    expect((file.body as Buffer).length).toBe(full.attachments[0]!.size);
+    const audit = h.db.sqlite.prepare("SELECT actor_email AS who, target_id AS target FROM audit_log WHERE action = 'session.review-mail'").all();
+    // Source: the brief (audit-log the mail).
+    expect(audit).toEqual([{ who: EMAILS.experimenter, target: String(stopped) }]);
+  });
+
+  it('refuses the mail to a reviewer (403) and before the session stopped (409)', async () => {
+    // Source: shared/api/roles.ts (reviewer lacks session:run); the review's 409 contract.
+    await reviewer.post(`/api/sessions/${stopped}/review/mail`).expect(403);
+    const experimenter = await signIn(h, EMAILS.experimenter);
+    await experimenter.post(`/api/sessions/${ready}/review/mail`).expect(409);
+  });
+});
