@@ -41,7 +41,7 @@ export function reviewPdf(r: GapReview): Promise<Buffer> {
   lines.push(r.online
     ? `Online accuracy (clean trials): ${pctText(r.online.accuracy)}, ${r.online.correct} of ${r.online.trials}, 95 % Wilson ${rangeText(r.online.wilson95)}`
     : 'Online accuracy: no clean trial with a known class.');
-  if (r.onlineChance) {
+  if (r.onlineChance && r.onlineChance.accuracyNeeded <= 1) {
     lines.push(`Chance threshold for ${r.online?.trials ?? 0} trials (alpha = 0.05, Combrisson & Jerbi 2015): ${pctText(r.onlineChance.accuracyNeeded)}; `
       + `online is ${r.onlineChance.aboveChance ? 'above' : 'not above'} it.`);
   }

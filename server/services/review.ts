@@ -5,7 +5,7 @@
  * the same review (review-pdf.ts, review-mail.ts).
  */
 import type { GapReview, ReviewMailResult } from '../../shared/api/review';
-import { computeGapReview, type OfflineInput, type ReviewTrial } from '../../shared/review/gap-review';
+import { computeGapReview, type OfflineInput, type ReplayInput, type ReviewTrial } from '../../shared/review/gap-review';
 import { findFeedById } from '../db/queries/feed';
 import { findDecoder, findPilotSession, listTrials } from '../db/queries/pilot-sessions';
 import type { DecoderRow } from '../db/schema';
@@ -14,6 +14,7 @@ import { findUserById } from '../db/queries/users';
 import type { Actor, AppContext } from '../context';
 import { AppError, notFound } from '../errors';
 import type { LiveEngine } from '../live/engine';
+import { offlineTrials } from '../live/offline';
 import { writeAudit } from './audit';
 import { reviewMail } from './review-mail';
 import { reviewPdf } from './review-pdf';
@@ -38,6 +39,24 @@ export function offlineInputOf(d: Pick<DecoderRow, 'report' | 'metrics'>): Offli
 
 export function reviewService(ctx: AppContext, engine: LiveEngine) {
   const { db } = ctx;
+  // A stopped session's samples and predictions no longer change: one re-run per session and decoder.
+  const replays = new Map<string, ReplayInput>();
+
+  /** Online against offline on the stored samples (server/live/offline.ts), or why that could not run. */
+  function replayOf(sessionId: number, decoder: DecoderRow): ReplayInput {
+    const key = `${sessionId}:${decoder.sha256}`;
+    let r = replays.get(key);
+    if (!r) {
+      try {
+        const live = engine.options.loadDecoder(decoder);
+        r = { trials: offlineTrials(db, sessionId, live).map((t) => ({ online: t.online, offline: t.offline })) };
+      } catch (e) {
+        r = { unavailable: e instanceof Error ? e.message : String(e) };
+      }
+      replays.set(key, r);
+    }
+    return r;
+  }
 
   const svc = {
     /** The review; 404 unknown session, 409 'session-not-stopped' before it stopped. */
@@ -63,6 +82,7 @@ export function reviewService(ctx: AppContext, engine: LiveEngine) {
       const core = computeGapReview({
         classes: decoder.classes, trials, offline: offlineInputOf(decoder), droppedSamples: s.droppedSamples, gapCount: s.gapCount,
         sampleRateHz: rate, durationS, epochEndS: decoder.epochEndS,
+        replay: s.feedId === null || s.startSample === null ? { unavailable: 'the session never received samples' } : replayOf(s.id, decoder),
       });
       return {
         sessionId: s.id, studyId: s.studyId, studyName: s.studyName, participantCode: s.participantCode, rigName: s.rigName,

@@ -14,8 +14,11 @@ import { idSchema, isoTimestampSchema } from './common';
 export const FINDING_VERDICTS = ['likely', 'possible', 'unlikely'] as const;
 export type FindingVerdict = typeof FINDING_VERDICTS[number];
 
-/** The findings, in the order the review shows them. */
-export const FINDING_KEYS = ['chance', 'excluded', 'gaps', 'latency', 'drift', 'overfitting'] as const;
+/**
+ * The findings, in the order the review shows them. 'replay' (the live path against an offline
+ * re-run of the stored samples) appears when the server could attempt the re-run.
+ */
+export const FINDING_KEYS = ['chance', 'excluded', 'gaps', 'latency', 'drift', 'overfitting', 'replay'] as const;
 export type FindingKey = typeof FINDING_KEYS[number];
 
 /**

@@ -28,7 +28,8 @@ export function chanceFinding(core: Core, classes: number): ReviewFinding {
   const figures: ReviewFigure[] = [
     { label: 'Online accuracy (clean trials)', value: online?.accuracy ?? null, unit: 'fraction', ...(online ? { interval: online.wilson95 } : {}) },
     { label: 'Online trials', value: online?.trials ?? 0, unit: 'count' },
-    { label: 'Accuracy needed above chance (α = 0.05)', value: onlineChance?.accuracyNeeded ?? null, unit: 'fraction' },
+    { label: 'Accuracy needed above chance (α = 0.05)', value: onlineChance && onlineChance.accuracyNeeded <= 1 ? onlineChance.accuracyNeeded : null,
+      unit: 'fraction' },
     { label: 'Offline nested-CV accuracy', value: offline?.accuracy ?? null, unit: 'fraction', ...(offline ? { interval: offline.wilson95 } : {}) },
     { label: 'Online minus offline', value: difference?.value ?? null, unit: 'difference', ...(difference ? { interval: difference.newcombe95 } : {}) },
   ];
@@ -37,10 +38,13 @@ export function chanceFinding(core: Core, classes: number): ReviewFinding {
     return { key: 'chance', title, verdict: 'possible', figures,
       text: 'No clean trial with a known class: there is no online accuracy to compare, so nothing can be said about the gap.' };
   }
-  const chanceLine = onlineChance
-    ? `With ${plural(online.trials, 'clean trial')} and ${classes} classes, chance alone reaches ${pctText(onlineChance.accuracyNeeded)} `
-      + `5 % of the time; the online accuracy of ${pctText(online.accuracy)} is ${onlineChance.aboveChance ? 'above' : 'not above'} that threshold.`
-    : '';
+  const chanceLine = !onlineChance ? ''
+    : onlineChance.minCorrect > online.trials
+      ? `With only ${plural(online.trials, 'clean trial')} and ${classes} classes no accuracy can be told apart from chance at the 5 % level: `
+        + 'even all trials correct happens by chance more often than that.'
+      : `With ${plural(online.trials, 'clean trial')} and ${classes} classes, accuracy must reach ${pctText(onlineChance.accuracyNeeded)} to be above `
+        + `chance (one-sided binomial test, α = 0.05); the online accuracy of ${pctText(online.accuracy)} is `
+        + `${onlineChance.aboveChance ? 'above' : 'not above'} that threshold.`;
   if (!difference || !offline) {
     return { key: 'chance', title, verdict: 'possible', figures,
       text: `${chanceLine} The decoder has no stored cross-validated estimate, so the size of the gap is unknown.` };
@@ -99,7 +103,7 @@ export function excludedFinding(input: ReviewInput, online: Core['online']): Rev
   const verdict = share >= EXCLUDED_LIKELY_SHARE ? 'likely' : share >= EXCLUDED_POSSIBLE_SHARE ? 'possible' : 'unlikely';
   return { key: 'excluded', title, verdict, figures,
     text: `${plural(excluded.length, 'trial')} of ${trials.length} (${pctText(share)}) were kept out of online accuracy (${reasons}; a trial can carry `
-      + `several reasons).${accText} Excluded trials do not enter the online figure, but many of them mean the clean trials are a selected `
+      + `several reasons).${accText} Excluded trials do not enter the online figure, but a large share of them means the clean trials are a selected `
       + 'subset and that the recording conditions differed from calibration; this review cannot tell whether the remaining trials were '
       + 'affected below the flag limits.' };
 }

@@ -1,17 +1,20 @@
 /**
  * The gap review's statistics: online accuracy on clean trials against the decoder's nested
  * cross-validated estimate, their difference, and one finding per possible reason for the gap
- * (chance, excluded trials, dropped samples, latency, non-stationarity, over-fitting). Pure: the
+ * (chance, excluded trials, dropped samples, latency, non-stationarity, over-fitting, and the live
+ * path against an offline re-run when one was made). Pure: the
  * server gathers the stored rows (server/services/review.ts) and calls `computeGapReview`.
  */
 import type { AccuracyEstimate, GapReview } from '../api/review';
 import { chanceThreshold, wilsonInterval } from '../evaluation/stats';
 import { chanceFinding, excludedFinding, gapsFinding, latencyFinding } from './findings-data';
 import { driftFinding, overfittingFinding } from './findings-model';
+import { replayFinding } from './findings-replay';
 import { newcombeDifference } from './intervals';
 import { isClean, type ReviewInput } from './types';
 
 export type { ReviewInput, ReviewTrial, OfflineInput } from './types';
+export type { ReplayInput, ReplayTrial } from './findings-replay';
 
 /** The computed part of a GapReview (the server adds the session's names and times). */
 export type GapReviewCore = Pick<GapReview, 'online' | 'onlineChance' | 'offline' | 'difference' | 'findings'>;
@@ -53,6 +56,7 @@ export function computeGapReview(input: ReviewInput): GapReviewCore {
       latencyFinding(input),
       driftFinding(input),
       overfittingFinding(input, core),
+      ...(input.replay !== undefined ? [replayFinding(input.replay)] : []),
     ],
   };
 }

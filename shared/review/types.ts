@@ -3,6 +3,7 @@
  * trials and totals, and its decoder's cross-validated figures, as plain values.
  */
 import type { TrialFlag } from '../api/sessions';
+import type { ReplayInput } from './findings-replay';
 
 /** One stored trial, classes as indices into `ReviewInput.classes`. */
 export interface ReviewTrial {
@@ -44,6 +45,8 @@ export interface ReviewInput {
   durationS: number | null;
   /** End of the decoder's epoch after the cue, s. */
   epochEndS: number;
+  /** The offline re-run of the stored samples; without it the 'replay' finding is left out. */
+  replay?: ReplayInput;
 }
 
 /** A trial counts in online accuracy when it carries no flag, is not marked bad and its class is known. */

@@ -31,9 +31,12 @@ describe('GET /api/sessions/:id/review', () => {
     const c = fixture.cases.find((x) => x.x1 === 29 && x.n2 === 500)!;
     // Source: tests/fixtures/review/newcombe.json case 29/40 - 432/500 (SciPy Wilson limits, Newcombe 1998 method 10).
     expectAllClose([r.difference!.value, ...r.difference!.newcombe95], [c.difference, c.lower, c.upper], { rtol: 1e-9 });
-    // Source: the construction: 19/20 then 10/20 (drift likely), 8 of 48 excluded (possible), interval excludes 0 (chance unlikely).
+    // Source: the construction: 19/20 then 10/20 (drift likely), 8 of 48 excluded (possible), interval excludes 0 (chance unlikely);
+    // the rows were written straight to SQLite without a feed, so there are no stored samples to re-run (replay possible).
     expect(Object.fromEntries(r.findings.map((f) => [f.key, f.verdict]))).toEqual({
-      chance: 'unlikely', excluded: 'possible', gaps: 'unlikely', latency: 'unlikely', drift: 'likely', overfitting: 'unlikely' });
+      chance: 'unlikely', excluded: 'possible', gaps: 'unlikely', latency: 'unlikely', drift: 'likely', overfitting: 'unlikely',
+      replay: 'possible' });
+    expect(r.findings.at(-1)!.text).toContain('never received samples');
     // Source: DESIGN.md "Cautions the product shows".
     expect(r.caution).toMatch(/Research use only.*not a medical device/i);
   });
