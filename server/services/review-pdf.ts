@@ -32,7 +32,7 @@ export function reviewPdf(r: GapReview): Promise<Buffer> {
   doc.moveDown(0.3).font('Helvetica').fontSize(10).fillColor('#444444')
     .text(t(`Study ${r.studyName} · participant ${r.participantCode} · rig ${r.rigName}`))
     .text(t(`Decoder ${r.decoderName} (SHA-256 ${r.decoderSha256.slice(0, 16)}…) · classes ${r.classes.join(', ')}`))
-    .text(t(`Session ${r.startedAt ?? 'never started'} to ${r.stoppedAt ?? '-'} · generated ${r.generatedAt}`));
+    .text(t(`${r.startedAt ? `Session ${r.startedAt} to ${r.stoppedAt ?? '-'}` : 'Session never started'} · generated ${r.generatedAt}`));
   doc.moveDown(0.5).font('Helvetica-Bold').fillColor('#8a4b00').text(t(r.caution));
 
   doc.moveDown(0.8).fillColor('#000000').font('Helvetica-Bold').fontSize(13).text('Online against offline');

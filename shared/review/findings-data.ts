@@ -15,6 +15,8 @@ import type { ReviewInput } from './types';
 export const EXCLUDED_POSSIBLE_SHARE = 0.1;
 /** Rule of thumb: a share of excluded trials from which a quarter or more of the session is missing from the online figure. */
 export const EXCLUDED_LIKELY_SHARE = 0.25;
+/** Rule of thumb: fewest excluded trials for 'likely' (one or two exclusions in a short session say little). */
+export const EXCLUDED_LIKELY_MIN = 5;
 /** Rule of thumb: share of session time lost to gaps from which dropped samples may matter. */
 export const GAP_POSSIBLE_SHARE = 0.01;
 /** Rule of thumb: share of trials whose feedback came after the next cue from which latency may matter. */
@@ -100,7 +102,8 @@ export function excludedFinding(input: ReviewInput, online: Core['online']): Rev
   const reasons = [...TRIAL_FLAGS, 'markedBad' as const]
     .map((f) => [f, f === 'markedBad' ? trials.filter((t) => t.markedBad).length : trials.filter((t) => t.flags.includes(f)).length] as const)
     .filter(([, n]) => n > 0).map(([f, n]) => `${FLAG_LABEL[f].toLowerCase()} ${n}`).join(', ');
-  const verdict = share >= EXCLUDED_LIKELY_SHARE ? 'likely' : share >= EXCLUDED_POSSIBLE_SHARE ? 'possible' : 'unlikely';
+  const verdict = share >= EXCLUDED_LIKELY_SHARE && excluded.length >= EXCLUDED_LIKELY_MIN ? 'likely'
+    : share >= EXCLUDED_POSSIBLE_SHARE ? 'possible' : 'unlikely';
   return { key: 'excluded', title, verdict, figures,
     text: `${plural(excluded.length, 'trial')} of ${trials.length} (${pctText(share)}) were kept out of online accuracy (${reasons}; a trial can carry `
       + `several reasons).${accText} Excluded trials do not enter the online figure, but a large share of them means the clean trials are a selected `

@@ -19,6 +19,10 @@ export interface ReplayTrial {
 /** The re-run's outcome: the compared trials, or why it could not run. */
 export type ReplayInput = { trials: readonly ReplayTrial[] } | { unavailable: string };
 
+function diffText(d: number): string {
+  return !Number.isFinite(d) ? 'not comparable' : d === 0 ? '0, identical' : d < 1e-3 ? d.toExponential(1) : d.toPrecision(2);
+}
+
 const argmax = (p: readonly number[]) => p.reduce((best, v, i) => (v > p[best]! ? i : best), 0);
 
 /** (g) Online against an offline re-run on the stored samples. */
@@ -39,7 +43,8 @@ export function replayFinding(replay: ReplayInput): ReviewFinding {
   const figures: ReviewFigure[] = [
     { label: 'Trials re-run', value: compared.length, unit: 'count' },
     { label: 'Trials outside the stored run', value: outside, unit: 'count' },
-    { label: 'Largest probability difference', value: compared.length > 0 && Number.isFinite(maxDiff) ? maxDiff : null, unit: 'count' },
+    { label: 'Largest probability difference', value: compared.length > 0 && Number.isFinite(maxDiff) ? maxDiff : null, unit: 'text',
+      text: compared.length === 0 ? 'n/a' : diffText(maxDiff) },
     { label: 'Predictions that differ', value: changed, unit: 'count' },
   ];
   if (compared.length === 0) {
@@ -49,10 +54,10 @@ export function replayFinding(replay: ReplayInput): ReviewFinding {
   const verdict = changed > 0 ? 'likely' : maxDiff > REPLAY_TOLERANCE ? 'possible' : 'unlikely';
   const text = verdict === 'unlikely'
     ? `Re-running the stored samples of ${plural(compared.length, 'trial')} offline through the same decoder gave the same probabilities `
-      + `(largest difference ${maxDiff.toExponential(1)}). The live path computed what the decoder computes offline, so it is not the cause `
+      + `(largest difference ${diffText(maxDiff)}). The live path computed what the decoder computes offline, so it is not the cause `
       + 'of the gap; this does not test the samples themselves.'
     : `Re-running the stored samples offline gave ${changed > 0 ? `a different prediction on ${plural(changed, 'trial')}` : 'slightly different probabilities'} `
-      + `(largest probability difference ${Number.isFinite(maxDiff) ? maxDiff.toPrecision(2) : 'not comparable'}). The live processing did not `
+      + `(largest probability difference ${diffText(maxDiff)}). The live processing did not `
       + 'compute what the decoder computes offline on the same samples; that difference is a fault to investigate and can contribute to the gap.';
   return { key: 'replay', title, verdict, figures,
     text: outside > 0 ? `${text} ${plural(outside, 'trial')} lay outside the stored run and could not be re-run.` : text };

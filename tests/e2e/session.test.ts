@@ -190,6 +190,23 @@ describe('a pilot session in the browser', () => {
     await reviewer.page.locator('[data-test="trial-row"]').nth(1).waitFor();
     expect(await reviewer.page.locator('[data-test="start"], [data-test="stop"], [data-test="display-link"]').count()).toBe(0);
     expect(await reviewer.page.locator('.trials__switch input:not([disabled])').count()).toBe(0);
+
+    // The gap review, linked from the stopped session's console: the headline comparison and the
+    // seven findings (shared/api/review.ts FINDING_KEYS), each with a verdict; no mail button for a reviewer.
+    await reviewer.page.locator('[data-test="review-link"]').click();
+    await reviewer.page.waitForURL(/\/sessions\/\d+\/review$/);
+    await reviewer.page.locator('[data-test="review-headline"]').waitFor();
+    expect(await reviewer.page.locator('[data-test="review-headline"]').innerText()).toMatch(/Online \d+\.\d %/);
+    expect(await reviewer.page.locator('article[data-test^="finding-"]').count()).toBe(7);
+    // The stored samples re-run offline through the same decoder give the live predictions (server/live/offline.ts;
+    // the live tests hold online = offline to 1e-9), so the live path is ruled out.
+    expect(await reviewer.page.locator('[data-test="finding-replay"] [data-test="finding-verdict"]').innerText()).toBe('Unlikely');
+    expect(await reviewer.page.locator('[data-test="finding-verdict"]').allInnerTexts())
+      .toEqual(expect.arrayContaining([expect.stringMatching(/^(Likely|Possible|Unlikely)$/)]));
+    expect(await reviewer.page.locator('[data-test="review-mail"]').count()).toBe(0);
+    await reviewer.page.mouse.move(0, 0);
+    await reviewer.page.screenshot({ path: screenshotPath('review'), fullPage: true });
+    expect(reviewer.consoleErrors.filter((m) => !/status of 401/.test(m))).toEqual([]);
     await reviewer.context.close();
   });
 });

@@ -10,6 +10,8 @@ describe('replayFinding (live path against an offline re-run)', () => {
     const f = replayFinding({ trials: [{ online: [0.3, 0.7], offline: [0.3, 0.7 + 1e-12] }, { online: [0.9, 0.1], offline: [0.9, 0.1] }] });
     // Source: constructed; a difference of 1e-12 is float rounding (below the 1e-6 tolerance).
     expect([f.verdict, fig(f, 'Trials re-run'), fig(f, 'Predictions that differ')]).toEqual(['unlikely', 2, 0]);
+    // Source: constructed: the largest difference is 1e-12 (shown in exponent form).
+    expect(f.figures.find((x) => x.label === 'Largest probability difference')!.text).toBe('1.0e-12');
   });
 
   it('a changed prediction points at the live path', () => {
