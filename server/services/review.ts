@@ -42,10 +42,17 @@ export function reviewService(ctx: AppContext, engine: LiveEngine) {
   // A stopped session's samples and predictions no longer change: one re-run per session and decoder.
   const replays = new Map<string, ReplayInput>();
 
-  /** Online against offline on the stored samples (server/live/offline.ts), or why that could not run. */
+  /**
+   * Online against offline on the stored samples (server/live/offline.ts), or why that could not
+   * run. The re-run is synchronous on the main thread (a few seconds for a long component-tf
+   * session), so it waits while any session is decoding live rather than delay its trials.
+   */
   function replayOf(sessionId: number, decoder: DecoderRow): ReplayInput {
     const key = `${sessionId}:${decoder.sha256}`;
     let r = replays.get(key);
+    if (!r && [...engine.sessions.values()].some((live) => live.status === 'running')) {
+      return { unavailable: 'another session is decoding live; the re-run waits until none is, so as not to delay its trials' };
+    }
     if (!r) {
       try {
         const live = engine.options.loadDecoder(decoder);

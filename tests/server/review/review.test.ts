@@ -92,3 +92,34 @@ describe('review PDF and mail', () => {
     await experimenter.post(`/api/sessions/${ready}/review/mail`).expect(409);
   });
 });
+
+describe('the replay finding on the server', () => {
+  it('waits while a session decodes live, then reports why the decoder could not re-run', async () => {
+    const s = h.seeded!;
+    const p = h.db.sqlite.prepare("SELECT id FROM participants WHERE study_id = ? AND code = 'P-001'").get(s.studyId) as { id: number };
+    const decoderId = insertReviewDecoder(h, s.studyId);
+    const id = insertReviewSession(h, { studyId: s.studyId, participantId: p.id, rigId: s.rig.id, decoderId }, 'stopped');
+    const feedId = Number(h.db.sqlite.prepare(`INSERT INTO feeds (rig_id, bridge_session_id, channel_names, units, sample_rate_hz, start_time,
+      next_sample, created_at, last_seen_at) VALUES (?, 'review-test', '["C3","Cz","C4"]', '["uV","uV","uV"]', 160, '2026-01-05T10:00:00.000Z',
+      32000, ?, ?)`).run(s.rig.id, Date.now(), Date.now()).lastInsertRowid);
+    h.db.sqlite.prepare('UPDATE pilot_sessions SET feed_id = ?, start_sample = 0, stop_sample = 32000 WHERE id = ?').run(feedId, id);
+    const sessions = h.services.live.sessions as Map<number, unknown>;
+    // A stand-in for a session decoding live on another rig (only its status is read).
+    sessions.set(987654, { status: 'running' });
+    try {
+      const busy = gapReviewSchema.parse((await reviewer.get(`/api/sessions/${id}/review`).expect(200)).body);
+      // Source: server/services/review.ts (the re-run waits while a session is running).
+      expect(busy.findings.at(-1)).toMatchObject({ key: 'replay', verdict: 'possible' });
+      expect(busy.findings.at(-1)!.text).toContain('decoding live');
+      // Source: the feed row above: 160 dropped samples at 160 Hz = 1 s of a 32000-sample (200 s) run.
+      expect(busy.findings.find((f) => f.key === 'gaps')!.figures.find((f) => f.label === 'Dropped time')!.value).toBe(1);
+    } finally {
+      sessions.delete(987654);
+    }
+    const idle = gapReviewSchema.parse((await reviewer.get(`/api/sessions/${id}/review`).expect(200)).body);
+    // Source: the fixture's decoder artifact is '{}', which no loader accepts: the reason is reported, not hidden.
+    expect(idle.findings.at(-1)).toMatchObject({ key: 'replay', verdict: 'possible' });
+    expect(idle.findings.at(-1)!.text).not.toContain('decoding live');
+    expect(idle.findings.at(-1)!.text).toContain('could not be re-run through the decoder');
+  });
+});
