@@ -12,6 +12,7 @@ import { idSchema, isoTimestampSchema } from './common';
 
 /** How far a finding explains the gap, judged only from the stored figures. */
 export const FINDING_VERDICTS = ['likely', 'possible', 'unlikely'] as const;
+/** 'likely' | 'possible' | 'unlikely'. */
 export type FindingVerdict = typeof FINDING_VERDICTS[number];
 
 /**
@@ -19,6 +20,7 @@ export type FindingVerdict = typeof FINDING_VERDICTS[number];
  * re-run of the stored samples) appears when the server could attempt the re-run.
  */
 export const FINDING_KEYS = ['chance', 'excluded', 'gaps', 'latency', 'drift', 'overfitting', 'replay'] as const;
+/** One of FINDING_KEYS. */
 export type FindingKey = typeof FINDING_KEYS[number];
 
 /**
@@ -27,6 +29,7 @@ export type FindingKey = typeof FINDING_KEYS[number];
  * p value), 'text' (value null, `text` holds it).
  */
 export const FIGURE_UNITS = ['fraction', 'difference', 'count', 'seconds', 'ms', 'logit', 'p', 'text'] as const;
+/** One of FIGURE_UNITS. */
 export type FigureUnit = typeof FIGURE_UNITS[number];
 
 /** One number behind a finding; value null = not available (e.g. no labelled trials). */
@@ -40,6 +43,7 @@ export const reviewFigureSchema = z.object({
 });
 export type ReviewFigure = z.infer<typeof reviewFigureSchema>;
 
+/** One possible reason for the gap, weighed. */
 export const reviewFindingSchema = z.object({
   key: z.enum(FINDING_KEYS),
   title: z.string(),
@@ -59,6 +63,7 @@ export const accuracyEstimateSchema = z.object({
 });
 export type AccuracyEstimate = z.infer<typeof accuracyEstimateSchema>;
 
+/** GET /api/sessions/:sessionId/review. */
 export const gapReviewSchema = z.object({
   sessionId: idSchema,
   studyId: idSchema,

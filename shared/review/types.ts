@@ -30,6 +30,7 @@ export interface OfflineInput {
   foldAccuracies: readonly number[];
 }
 
+/** Everything the review computes from: a stopped session's trials and totals, and the decoder's offline figures. */
 export interface ReviewInput {
   classes: readonly string[];
   /** In cue order. */

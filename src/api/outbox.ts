@@ -9,3 +9,8 @@ export function listOutbox(): Promise<OutboxSummary[]> {
 export function getOutboxMessage(mailId: number): Promise<OutboxMessage> {
   return http.get(`/outbox/${mailId}`, { schema: outboxMessageSchema });
 }
+
+/** Download link of one attachment of an outbox message. */
+export function outboxAttachmentUrl(mailId: number, attachmentId: number): string {
+  return `/api/outbox/${mailId}/attachments/${attachmentId}`;
+}
