@@ -5,8 +5,7 @@
  * this review's own choices, not published cut-offs.
  */
 import type { GapReview, ReviewFigure, ReviewFinding } from '../api/review';
-import { mcnemar, normalSf } from '../evaluation/stats';
-import { wilsonInterval } from '../evaluation/stats';
+import { mcnemar, normalSf, wilsonInterval } from '../evaluation/stats';
 import { pctText, plural, pointsRangeText, pointsText, pText } from './format';
 import { meanSd, newcombeDifference } from './intervals';
 import { isClean, type ReviewInput, type ReviewTrial } from './types';
