@@ -26,6 +26,8 @@ export interface AcceptorServer {
   dropAfter(...counts: number[]): void;
   /** While true, new connections are closed at once with 4503 (retry later). */
   turnAway: boolean;
+  /** When > 0, each drop of `dropAfter` also turns new connections away for this many ms. */
+  turnAwayAfterDropMs: number;
   /** Send an ACK only every n-th data frame (each is still committed at once). */
   ackEvery: number;
   close(): Promise<void>;
@@ -50,6 +52,7 @@ export async function startAcceptorServer(rigKey: string): Promise<AcceptorServe
     sessions,
     dropAfter(...counts) { drops.push(...counts); dropIn ??= drops.shift() ?? null; },
     turnAway: false,
+    turnAwayAfterDropMs: 0,
     ackEvery: 1,
     close: () => new Promise<void>((resolve) => {
       for (const c of wss.clients) c.terminate();
@@ -94,7 +97,14 @@ export async function startAcceptorServer(rigKey: string): Promise<AcceptorServe
       if (++sinceAck >= server.ackEvery) { ws.send(ack); sinceAck = 0; }
       // Held-back ACKs still go out once the feed pauses, as a batching server's would.
       else flush = setTimeout(() => { if (ws.readyState === ws.OPEN) ws.send(s.acceptor.commit(s.acceptor.lastDurableSeq)); sinceAck = 0; }, 30);
-      if (dropIn !== null && --dropIn <= 0) { dropIn = drops.shift() ?? null; ws.terminate(); }
+      if (dropIn !== null && --dropIn <= 0) {
+        dropIn = drops.shift() ?? null;
+        if (server.turnAwayAfterDropMs > 0) {
+          server.turnAway = true;
+          setTimeout(() => { server.turnAway = false; }, server.turnAwayAfterDropMs);
+        }
+        ws.terminate();
+      }
     });
     ws.on('close', () => {
       if (session && session.active === ws) { session.active = null; session.acceptor.disconnect(); }

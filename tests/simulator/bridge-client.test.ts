@@ -128,13 +128,13 @@ describe('the bridge client against a local acceptor', () => {
     server = await startAcceptorServer('k-3');
     const events: BridgeEvent[] = [];
     const { client, source } = makeClient(server.url, 'k-3', events, 250);
-    const run = runBridge(source, client, { speed: 60, seconds: SECONDS, chunkMs: 40 });
-    while (server.sessions.size === 0 || source.nextSample < 5 * 250) await new Promise((r) => setTimeout(r, 5));
-    server.turnAway = true;
-    for (const c of [...server.sessions.values()].map((x) => x.active)) c?.terminate();
-    await new Promise((r) => setTimeout(r, 150));
-    server.turnAway = false;
-    await run;
+    // The server drops the feed after 125 data frames (about 5 s of the stream at 40-ms chunks) and
+    // turns the bridge away for 300 ms, i.e. 18 s of stream at 60x: far more than its 250-sample
+    // buffer holds. Triggered by the server's own count, not a timer, so a slow machine cannot
+    // let the whole 30-s stream through before the drop.
+    server.turnAwayAfterDropMs = 300;
+    server.dropAfter(125);
+    await runBridge(source, client, { speed: 60, seconds: SECONDS, chunkMs: 40 });
     const s = [...server.sessions.values()][0]!;
     const given = mergeRanges(events.flatMap((e) => (e.kind === 'overflow' ? [{ fromSample: e.fromSample, toSample: e.toSample }] : [])));
     expect(given.length).toBeGreaterThan(0);
