@@ -3,6 +3,7 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { edfPlusExample } from '../shared/formats/edf-examples';
 import { describe, expect, it } from 'vitest';
 import { expectAllClose } from '../helpers/all-close';
 import { eegmmidbPath, skipWithoutRealData } from '../helpers/real-data';
@@ -39,7 +40,10 @@ describe('aftercue edf-info', () => {
   });
 
   it('prints the REFERENCES.md §7 example with its null duration', () => {
-    const r = run('tests/fixtures/formats/edfplus_example.edf');
+    const dir = mkdtempSync(join(tmpdir(), 'aftercue-edf-'));
+    const file = join(dir, 'edfplus_example.edf');
+    writeFileSync(file, edfPlusExample());
+    const r = run(file);
     // Reference: REFERENCES.md §7 byte-exact example (edf_examples.py).
     expect(r.status, r.stderr).toBe(0);
     expect((JSON.parse(r.stdout) as Info).annotations).toEqual([
@@ -48,7 +52,7 @@ describe('aftercue edf-info', () => {
 
   it('reports a broken file on stderr with a non-zero exit and nothing on stdout', () => {
     const dir = mkdtempSync(join(tmpdir(), 'aftercue-edf-'));
-    const example = readFileSync(new URL('../fixtures/formats/edfplus_example.edf', import.meta.url));
+    const example = edfPlusExample();
     const broken = join(dir, 'truncated.edf');
     writeFileSync(broken, example.subarray(0, 900));
     const r = run(broken);

@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { readEdf, readEdfHeader, writeEdfPlus } from '../../../shared/formats/edf';
@@ -5,15 +6,29 @@ import { parseTals } from '../../../shared/formats/edf-tal';
 import { expectAllClose, expectClose } from '../../helpers/all-close';
 
 const dir = new URL('../../fixtures/formats/', import.meta.url);
-const load = (name: string) => new Uint8Array(readFileSync(new URL(name, dir)));
+import { bdfExample, edfPlusExample } from './edf-examples';
 interface Examples {
   edfplus: { gain: number; digital: number[]; physical: number[]; record0AnnotationHex: string;
     record1AnnotationHex: string; eegRecord0Hex: string; eegRecord1Hex: string };
   bdf: { triplesHex: string[]; digital: number[] };
-  files: Record<string, { size: number }>;
+  files: Record<string, { size: number; sha256: string }>;
 }
 const fixture = JSON.parse(readFileSync(new URL('edf_examples.json', dir), 'utf8')) as Examples;
 const hex = (b: Uint8Array) => Buffer.from(b).toString('hex');
+
+/** The example files, built in the test (edf-examples.ts). */
+const built: Record<string, Uint8Array> = {
+  'edfplus_example.edf': edfPlusExample(), 'bdf_example.bdf': bdfExample(false), 'bdfplus_example.bdf': bdfExample(true),
+};
+const load = (name: string) => built[name]!;
+
+describe('the example files built here', () => {
+  it.each(Object.keys(built))('are byte for byte the Python scripts\' %s', (name) => {
+    // Reference: edf_examples.json sha256 and size (../shared/refvalues/edf_examples.py, make_edf_examples.py).
+    expect([built[name]!.length, createHash('sha256').update(built[name]!).digest('hex')])
+      .toEqual([fixture.files[name]!.size, fixture.files[name]!.sha256]);
+  });
+});
 
 describe('EDF+ byte-exact example (REFERENCES.md §7)', () => {
   const bytes = load('edfplus_example.edf');
