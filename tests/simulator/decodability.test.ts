@@ -3,7 +3,6 @@
 // after its onset, and must leave blink and muscle components out. Everything is judged against
 // the simulator's ground truth. Scenario: tests/fixtures/simulator/decodability-hand-imagery.json
 // (ours; measured figures and other seeds in docs/decodability.md).
-import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { interpretDecoder, type ComponentInterpretation } from '../../shared/decoder/interpret';
 import { fitPipeline } from '../../shared/decoder/pipeline';
@@ -16,47 +15,10 @@ import { deriveSeed, stratifiedKFold } from '../../shared/evaluation/folds';
 import { chanceThreshold } from '../../shared/evaluation/stats';
 import { simulateRecording, type GroundTruth, type TruthEffect } from '../../simulator';
 import { expectClose } from '../helpers/all-close';
+import { CLASSES, energyShareInside, pattern, pearson, PROFILE, SIM_SEED } from './truth-helpers';
 
-const PROFILE = JSON.parse(readFileSync(new URL('../fixtures/simulator/decodability-hand-imagery.json', import.meta.url), 'utf8')) as Record<string, unknown>;
-// Diagnostic knob for docs/decodability.md (other simulation seeds); unset in normal runs.
-const SIM_SEED = process.env.AFTERCUE_DECODABILITY_SEED === undefined ? undefined : Number(process.env.AFTERCUE_DECODABILITY_SEED);
-const CLASSES: [string, string] = ['left-hand', 'right-hand'];
 const SEED = 0; // trainDecoder's default seed
 const INNER_K = 3;
-
-/** Pearson correlation over channels (a mixing column against a truth pattern; CAR does not change it). */
-function pearson(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  const n = a.length;
-  let ma = 0, mb = 0;
-  for (let i = 0; i < n; i++) { ma += a[i]! / n; mb += b[i]! / n; }
-  let ab = 0, aa = 0, bb = 0;
-  for (let i = 0; i < n; i++) { ab += (a[i]! - ma) * (b[i]! - mb); aa += (a[i]! - ma) ** 2; bb += (b[i]! - mb) ** 2; }
-  return ab / Math.sqrt(aa * bb);
-}
-
-function pattern(truth: GroundTruth, sourceId: string): number[] {
-  const s = truth.sources.find((x) => x.id === sourceId);
-  if (!s) throw new Error(`ground truth has no source '${sourceId}'`);
-  return s.pattern;
-}
-
-/**
- * Share of a component's energy on the training epochs that falls inside the truth's windows of
- * the given artifact kinds (epoch i starts at sample round(onsetS_i·fs) + offset).
- */
-function energyShareInside(truth: GroundTruth, kinds: string[], acts: Float64Array[], onsetsS: Float64Array, offset: number, fs: number): number {
-  let inside = 0, total = 0;
-  acts.forEach((x, i) => {
-    const s0 = Math.round(onsetsS[i]! * fs) + offset;
-    const mask = new Uint8Array(x.length);
-    for (const a of truth.artifacts) {
-      if (!kinds.includes(a.kind)) continue;
-      for (let t = Math.max(a.startSample, s0); t < Math.min(a.endSample, s0 + x.length); t++) mask[t - s0] = 1;
-    }
-    for (let t = 0; t < x.length; t++) { total += x[t]! ** 2; if (mask[t]) inside += x[t]! ** 2; }
-  });
-  return inside / total;
-}
 
 interface ComponentTruth { index: number; rBlink: number; rMuscle: number; blinkShare: number; muscleShare: number }
 
