@@ -95,7 +95,10 @@ export function liveDecoderFromLoaded(d: LoadedDecoder): LiveDecoder {
     // Probabilities in class order: P(classes[0]) = 1 - P(classes[1]).
     return Float64Array.of(1 - p, p);
   };
-  warmUp(score, spec.channelNames.length, epoch.length);
+  if (!warmedRecipes.has(d.artifact.recipe)) {
+    warmUp(score, spec.channelNames.length, epoch.length);
+    warmedRecipes.add(d.artifact.recipe);
+  }
   return {
     classes: [...d.classes],
     channelNames: [...spec.channelNames],
@@ -118,6 +121,13 @@ export function liveDecoderFromLoaded(d: LoadedDecoder): LiveDecoder {
 
 /** Predictions run at load so that the first cue of a session does not pay for V8's compilation. */
 const WARM_UP_RUNS = 12;
+/**
+ * Recipes whose decision code this process has warmed up. V8 compiles per function, and every
+ * decoder of a recipe runs the same functions, so one warm-up per recipe and process suffices:
+ * later sessions load without the extra main-thread work (up to ~60 ms for component-tf at
+ * 1000 Hz) that would delay the running sessions' trials.
+ */
+const warmedRecipes = new Set<string>();
 
 /**
  * Scores a deterministic, non-constant epoch a few times: the first calls of the decision
