@@ -1,7 +1,7 @@
 /**
  * `npm run bench`: every speed and accuracy benchmark in turn, each in its own process so one
  * does not warm or slow another. Each script prints its own figures; this only sequences them.
- *   npm run bench               quick set (filters, CWT, solvers, predict, simulator)
+ *   npm run bench               quick set (filters, CWT, solvers, predict, simulator, demo flags)
  *   npm run bench -- --full     adds the ten-subject eegmmidb benchmark and the live and console benchmarks
  * The README's figures come from these scripts; rerun them on an idle machine to compare.
  */
@@ -17,6 +17,7 @@ const runs: [string, string[]][] = [
   ['bench/solver.ts', []],
   ['bench/predict.ts', []],
   ['simulator/bench.ts', []],
+  ['bench/demo-flags.ts', []],
   ...(full ? [['bench/eegmmidb.ts', []], ['bench/live.ts', ['--json']], ['bench/console.ts', ['--json']]] as [string, string[]][] : []),
 ];
 

@@ -14,8 +14,8 @@
  * any that overlap missing or non-finite samples), usable once MIN_WINDOWS are in and final at
  * one minute. The same windows give per-channel RMS limits for the console's quality flags.
  *
- * What it catches (measured once, 80 simulated trials, 1-40 Hz + CAR, limits from the first
- * minute): the demo participant keeps still during trials (profile stillDuringEpochs), so only
+ * What it catches (`npx tsx bench/demo-flags.ts`: 80 simulated trials, 1-40 Hz + CAR, limits
+ * from the first minute): the demo participant keeps still during trials (profile stillDuringEpochs), so only
  * pops and dropouts reach an epoch and 3 of 77 judged trials were flagged; with the same rates
  * (12 blinks, 4 saccades, 2 muscle bursts a minute) placed regardless of the cues, 17 of 77.
  * On eegmmidb (64 channels, 0.5-2.5 s) about one trial in ten.
