@@ -58,12 +58,9 @@ export function setUpSessions(h: ServerHandle, artifact: DecoderArtifact, feeds:
     epochStartS: artifact.epoch.tminS, epochEndS: artifact.epoch.tmaxS, channelNames: CHANNELS, sampleRateHz: rateHz, powerLineHz: 50,
     recipe: artifact.recipe }, admin);
   const participant = h.services.participants.create(study.id, { code: 'B-001', consentStatus: 'given', consentDate: '2026-01-05' }, admin);
-  const now = Date.now();
-  const decoderId = Number(h.db.sqlite.prepare(`INSERT INTO decoders (study_id, name, recipe, classes, channel_names, sample_rate_hz,
-    epoch_start_s, epoch_end_s, artifact, sha256, status, metrics, source, created_at, frozen_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?,
-    'frozen', '{}', 'import', ?, ?)`).run(study.id, `Bench ${artifact.recipe}`, artifact.recipe, JSON.stringify(CLASSES),
-    JSON.stringify(artifact.channelNames), rateHz, artifact.epoch.tminS, artifact.epoch.tmaxS, serialiseArtifact(artifact), artifact.sha256,
-    now, now).lastInsertRowid);
+  // Imported and frozen through the decoder service, as an investigator would in the app.
+  const imported = h.services.decoders.import(study.id, { name: `Bench ${artifact.recipe}`, artifact: JSON.parse(serialiseArtifact(artifact)) as never }, admin);
+  const decoderId = h.services.decoders.freeze(imported.id, admin).id;
   const rigs = Array.from({ length: feeds }, (_, i) => h.services.rigs.create({ name: `Bench rig ${i + 1}`, location: '' }, admin));
   const sessions = rigs.map((r) => h.services.sessions.create({ studyId: study.id, participantId: participant.id, rigId: r.rig.id, decoderId }, admin));
   return { admin, decoderId, rigs, sessions };
