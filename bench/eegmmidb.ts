@@ -7,6 +7,7 @@
  * replay R12 through the frozen decoder's live stream (predictRecording).
  *
  * Run: npx tsx bench/eegmmidb.ts [--subjects S001,S002] [--repeats 5] [--recipes covariance,component-tf] [--json] [--no-later] [--no-baselines]
+ *        [--jobs N]: N child processes, one subject each (the 2-core machine: --jobs 2); CPU is summed over them
  *        [--components N] (ICA components / covariance rank, as `aftercue train --components`) [--no-prior]
  *        [--csp-only]: only CSP + shrinkage LDA, causal (as the product filters) and zero-phase (as the
  *        reference protocol filters: Butterworth order 4, 8-30 Hz, forward-backward on the continuous run)
@@ -14,7 +15,9 @@
  * Data: Schalk et al. 2004, IEEE TBME 51(6):1034-1043; Goldberger et al. 2000, Circulation
  * 101(23):e215-e220; PhysioNet eegmmidb v1.0.0; Open Data Commons Attribution License v1.0.
  */
+import { spawn } from 'node:child_process';
 import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
 import { cspStage } from '../shared/decoder/baselines/csp';
 import { shrinkageLdaStage } from '../shared/decoder/baselines/shrinkage-lda';
 import { epochRecording } from '../shared/decoder/epochs';
@@ -54,6 +57,7 @@ const later = !process.argv.includes('--no-later');
 const components = arg('--components') === undefined ? {} : { components: Number(arg('--components')) };
 const prior = !process.argv.includes('--no-prior');
 const withBaselines = !process.argv.includes('--no-baselines');
+const jobs = Number(arg('--jobs') ?? 1);
 
 function load(subject: string, run: string): Recording {
   return edfToRecording(readEdf(new Uint8Array(readFileSync(new URL(`${subject}${run}.edf`, DIR)))));
@@ -113,9 +117,8 @@ interface Row {
   cspLda: number; bandpowerLogreg: number; cspLaterRun: number | null;
 }
 
-const rows: Row[] = [];
-const t0 = performance.now();
-for (const subject of subjects) {
+/** One subject: both recipes (and, with the first, the baselines) on the same folds, plus the later-run check. */
+function runSubject(subject: string): Row {
   const runs = ['R04', 'R08', 'R12'].map((r) => load(subject, r));
   const sourceNames = ['R04', 'R08', 'R12'].map((r) => `${subject}${r}.edf`);
   const row: Row = { subject, trials: 0, recipes: {}, cspLda: NaN, bandpowerLogreg: NaN, cspLaterRun: null };
@@ -139,10 +142,50 @@ for (const subject of subjects) {
       `${report.timings.cvCpuSeconds?.toFixed(1)} s cpu per ${repeats} repeat(s))${laterRun === null ? '' : `, later run ${laterRun.toFixed(3)}`}\n`);
   });
   if (later && withBaselines) row.cspLaterRun = cspLaterRun(runs.slice(0, 2), runs[2]!);
-  rows.push(row);
+  return row;
+}
+
+interface ChildResult { rows: Row[]; cpuSeconds: number; memory: { maxRssMB: number; heapUsedMB: number } }
+
+/** --jobs N: one child process per subject, N at a time (each is the single-subject --json run), results merged in subject order. */
+async function runInChildren(n: number): Promise<{ rows: Row[]; cpuSeconds: number; maxRssMB: number }> {
+  const passOn = process.argv.slice(2).filter((a, i, all) => !['--jobs', '--subjects'].includes(a) && !['--jobs', '--subjects'].includes(all[i - 1] ?? '')
+                                                          && a !== '--json');
+  const results = new Map<string, ChildResult>();
+  const queue = [...subjects];
+  const worker = async () => {
+    for (let subject = queue.shift(); subject !== undefined; subject = queue.shift()) {
+      const s = subject;
+      const out = await new Promise<string>((resolve, reject) => {
+        const child = spawn(process.execPath, [...process.execArgv, fileURLToPath(import.meta.url), ...passOn, '--subjects', s, '--json'],
+                            { stdio: ['ignore', 'pipe', 'inherit'] });
+        let text = '';
+        child.stdout.on('data', (d: Buffer) => { text += d.toString(); });
+        child.on('error', reject);
+        child.on('close', (code) => (code === 0 ? resolve(text) : reject(new Error(`${s}: exited with ${code}`))));
+      });
+      results.set(s, JSON.parse(out) as ChildResult);
+    }
+  };
+  await Promise.all(Array.from({ length: Math.max(1, Math.min(n, subjects.length)) }, worker));
+  const all = subjects.map((s) => results.get(s)!);
+  return { rows: all.flatMap((r) => r.rows), cpuSeconds: all.reduce((a, r) => a + r.cpuSeconds, 0),
+           maxRssMB: Math.max(...all.map((r) => r.memory.maxRssMB)) };
+}
+
+const t0 = performance.now();
+let rows: Row[];
+let cpuTotal: number;
+let maxRssMB: number;
+if (jobs > 1 && !json) {
+  ({ rows, cpuSeconds: cpuTotal, maxRssMB } = await runInChildren(jobs));
+} else {
+  rows = subjects.map(runSubject);
+  cpuTotal = cpu();
+  maxRssMB = process.resourceUsage().maxRSS / 1024;
 }
 const totalS = (performance.now() - t0) / 1000;
-const mem = { maxRssMB: process.resourceUsage().maxRSS / 1024, heapUsedMB: process.memoryUsage().heapUsed / 2 ** 20 };
+const mem = { maxRssMB, heapUsedMB: process.memoryUsage().heapUsed / 2 ** 20 };
 
 const mean = (f: (r: Row) => number | null | undefined) => {
   const v = rows.map(f).filter((x): x is number => typeof x === 'number' && Number.isFinite(x));
@@ -150,7 +193,7 @@ const mean = (f: (r: Row) => number | null | undefined) => {
 };
 const f3 = (x: number | null | undefined) => (typeof x === 'number' && Number.isFinite(x) ? x.toFixed(3) : '  -  ');
 if (json) {
-  process.stdout.write(`${JSON.stringify({ repeats, recipes, rows, totalSeconds: totalS, cpuSeconds: cpu(), memory: mem, citation: EEGMMIDB_CITATION }, null, 2)}\n`);
+  process.stdout.write(`${JSON.stringify({ repeats, recipes, rows, totalSeconds: totalS, cpuSeconds: cpuTotal, memory: mem, citation: EEGMMIDB_CITATION }, null, 2)}\n`);
 } else {
   const lines: string[] = [];
   lines.push(`eegmmidb S001-S010 subset, R04+R08+R12, T1 vs T2; stratified 10-fold x ${repeats} repeat(s), inner 5-fold; ours vs REFERENCE-ACCURACY.md (ref)` +
@@ -179,7 +222,7 @@ if (json) {
     lines.push('', `${k}: smallest λ of the grid chosen in ${e} of ${f} outer folds; nested CV CPU per subject ${Math.min(...c).toFixed(0)}-${Math.max(...c).toFixed(0)} s ` +
       `(${repeats} repeat(s)), ${(c.reduce((a, b) => a + b, 0) / c.length / repeats).toFixed(0)} s per repeat on average`);
   }
-  lines.push('', `total ${totalS.toFixed(0)} s wall, ${cpu().toFixed(0)} s CPU; peak RSS ${mem.maxRssMB.toFixed(0)} MB`);
+  lines.push('', `total ${totalS.toFixed(0)} s wall, ${cpuTotal.toFixed(0)} s CPU${jobs > 1 ? ` (${jobs} processes, one subject each)` : ''}; peak RSS ${mem.maxRssMB.toFixed(0)} MB`);
   lines.push(`Data: ${EEGMMIDB_CITATION}`);
   process.stdout.write(`${lines.join('\n')}\n`);
 }
