@@ -9,8 +9,12 @@
  * Run: npx tsx bench/eegmmidb.ts [--subjects S001,S002] [--repeats 5] [--recipes covariance,component-tf] [--json] [--no-later] [--no-baselines]
  *        [--jobs N]: N child processes, one subject each (the 2-core machine: --jobs 2); CPU is summed over them
  *        [--components N] (ICA components / covariance rank, as `aftercue train --components`) [--no-prior]
+ *        [--covariance-map linear|log] (the covariance recipe's feature map, as `aftercue train --covariance-map`)
  *        [--csp-only]: only CSP + shrinkage LDA, causal (as the product filters) and zero-phase (as the
  *        reference protocol filters: Butterworth order 4, 8-30 Hz, forward-backward on the continuous run)
+ *        [--zero-phase]: the covariance recipe and CSP + shrinkage LDA, both on epochs filtered zero-phase
+ *        as the reference protocol does (offline only: a forward-backward filter on the continuous run
+ *        needs samples after the epoch), same outer folds as trainDecoder
  *
  * Data: Schalk et al. 2004, IEEE TBME 51(6):1034-1043; Goldberger et al. 2000, Circulation
  * 101(23):e215-e220; PhysioNet eegmmidb v1.0.0; Open Data Commons Attribution License v1.0.
@@ -29,7 +33,8 @@ import { summariseCv } from '../shared/decoder/recipes/report';
 import { fitPipeline, type AnyStage } from '../shared/decoder/pipeline';
 import { loadDecoder, predictRecording } from '../shared/decoder/predict';
 import type { RecipeName } from '../shared/decoder/recipes';
-import { EEGMMIDB_CITATION, fitDecoder, runBaselines, trainDecoder, type TrainingReport } from '../shared/decoder/train';
+import { COVARIANCE_MAPS, type CovarianceMap } from '../shared/decoder/recipes/covariance-map';
+import { EEGMMIDB_CITATION, fitDecoder, prepareTraining, runBaselines, trainDecoder, type TrainingReport } from '../shared/decoder/train';
 import { normaliseChannelName } from '../shared/montage';
 import { edfToRecording, readEdf } from '../shared/formats/edf';
 import type { Recording } from '../shared/types';
@@ -58,6 +63,9 @@ const components = arg('--components') === undefined ? {} : { components: Number
 const prior = !process.argv.includes('--no-prior');
 const withBaselines = !process.argv.includes('--no-baselines');
 const jobs = Number(arg('--jobs') ?? 1);
+const covarianceMap = arg('--covariance-map') as CovarianceMap | undefined;
+if (covarianceMap !== undefined && !COVARIANCE_MAPS.includes(covarianceMap)) throw new Error(`--covariance-map: expected ${COVARIANCE_MAPS.join(' or ')}`);
+const recipeOptions = covarianceMap === undefined ? {} : { recipeOptions: { covarianceMap } };
 
 function load(subject: string, run: string): Recording {
   return edfToRecording(readEdf(new Uint8Array(readFileSync(new URL(`${subject}${run}.edf`, DIR)))));
@@ -89,6 +97,39 @@ function cspZeroPhase(runs: Recording[], reps: number): number {
   const plans = repeatedStratifiedKFold(labels, 10, reps, 0);
   const folds = plans.map((p) => crossValidate(() => [cspStage({ pairs: 3 }) as AnyStage, shrinkageLdaStage() as AnyStage], epochs, labels, p));
   return summariseCv(folds, labels, 1).accuracy;
+}
+
+/**
+ * The covariance recipe's nested CV (its own stages, λ by inner 5-fold CV) on epochs filtered
+ * zero-phase on the continuous run with the recipe's band-pass design, same outer folds as trainDecoder.
+ */
+function covarianceZeroPhase(runs: Recording[], reps: number): number {
+  const p = prepareTraining(runs, { recipe: 'covariance', classes: ['T1', 'T2'], ...recipeOptions });
+  const sos = p.plan.preprocess.bandpass.sos;
+  const eps = runs.map((r) => epochRecording({ ...r, data: sosfiltfilt(sos, channelsInOrder(r, p.channelNames)) }, { classes: ['T1', 'T2'] },
+                                             p.plan.window.tminS, p.plan.window.tmaxS));
+  const epochs = eps.flatMap((e) => e.epochs);
+  const labels = Uint8Array.from(eps.flatMap((e) => Array.from(e.labels)));
+  if (labels.some((l, i) => l !== p.data.labels[i])) throw new Error('zero-phase epochs do not match the recipe trials');
+  const plans = repeatedStratifiedKFold(labels, 10, reps, 0);
+  return summariseCv(plans.map((pl) => crossValidate(() => p.plan.stages(), epochs, labels, pl, { innerK: 5 })), labels, 1).accuracy;
+}
+
+if (process.argv.includes('--zero-phase')) {
+  const lines = [`Zero-phase filter (reference protocol), stratified 10-fold x ${repeats}, same folds as trainDecoder${covarianceMap ? `; covariance map ${covarianceMap}` : ''}`,
+                 '| subject | covariance recipe | CSP + shrinkage LDA |', '|---|---|---|'];
+  const acc: number[][] = [];
+  for (const subject of subjects) {
+    const runs = ['R04', 'R08', 'R12'].map((r) => load(subject, r));
+    const row = [covarianceZeroPhase(runs, repeats), cspZeroPhase(runs, repeats)];
+    acc.push(row);
+    lines.push(`| ${subject} | ${row[0]!.toFixed(3)} | ${row[1]!.toFixed(3)} |`);
+    process.stderr.write(`${lines[lines.length - 1]}\n`);
+  }
+  const m = (k: number) => (acc.reduce((a, r) => a + r[k]!, 0) / acc.length).toFixed(3);
+  lines.push(`| mean | ${m(0)} | ${m(1)} |`);
+  process.stdout.write(`${lines.join('\n')}\n`);
+  process.exit(0);
 }
 
 if (process.argv.includes('--csp-only')) {
@@ -124,13 +165,13 @@ function runSubject(subject: string): Row {
   const row: Row = { subject, trials: 0, recipes: {}, cspLda: NaN, bandpowerLogreg: NaN, cspLaterRun: null };
   recipes.forEach((recipe, j) => {
     const { report } = trainDecoder(runs, { recipe, classes: ['T1', 'T2'], folds: 10, inner: 5, repeats, seed: 0, baselines: withBaselines && j === 0, sourceNames,
-                                          prior, ...components });
+                                          prior, ...components, ...recipeOptions });
     row.trials = report.trials;
     if (report.baselines) { row.cspLda = report.baselines.cspLda.accuracy; row.bandpowerLogreg = report.baselines.bandpowerLogreg.accuracy; }
     let laterRun: number | null = null;
     if (later) {
       const artifact = fitDecoder(runs.slice(0, 2), { recipe, classes: ['T1', 'T2'], seed: 0, sourceNames: sourceNames.slice(0, 2),
-                                                    prior, ...components });
+                                                    prior, ...components, ...recipeOptions });
       laterRun = predictRecording(loadDecoder(JSON.parse(JSON.stringify(artifact)) as unknown), runs[2]!, ['T1', 'T2']).accuracy;
     }
     const grid = (report.settings.lambda ?? {}) as { minRatio?: number };
@@ -197,7 +238,8 @@ if (json) {
 } else {
   const lines: string[] = [];
   lines.push(`eegmmidb S001-S010 subset, R04+R08+R12, T1 vs T2; stratified 10-fold x ${repeats} repeat(s), inner 5-fold; ours vs REFERENCE-ACCURACY.md (ref)` +
-    `${components.components === undefined ? '' : `; components/rank ${components.components}`}${prior ? '' : '; prior off'}`);
+    `${components.components === undefined ? '' : `; components/rank ${components.components}`}${prior ? '' : '; prior off'}` +
+    `${covarianceMap === undefined ? '' : `; covariance map ${covarianceMap}`}`);
   lines.push('| subject | trials | CSP+LDA | ref | bandpower+LR | ref | component-tf | ref | covariance | ref (1 split) | cv s (wall/cpu) comp-tf | cv s cov |');
   lines.push('|---|---|---|---|---|---|---|---|---|---|---|---|');
   const secs = (r: Row, k: string) => (r.recipes[k] ? `${r.recipes[k]!.cvSeconds.toFixed(0)}/${r.recipes[k]!.cvCpuSeconds?.toFixed(0)}` : '-');

@@ -6,12 +6,14 @@
  *   raw+1s   the same with one second of raw run-in before the epoch
  *   filtered predictFilteredEpoch on an epoch the stream already filtered (the live path's cost
  *            after the last sample arrived; the stream filters each chunk as it comes)
+ * Covariance decoders with both feature maps ('log' has no low-rank shortcut), then component-tf.
  * Run: npx tsx bench/predict.ts [--subject S001] [--reps 300]
  */
 import { readFileSync } from 'node:fs';
 import { channelsInOrder } from '../shared/decoder/online';
 import { createDecoderStream, loadDecoder, predictFilteredEpoch, predictRawEpoch, type FilteredEpoch } from '../shared/decoder/predict';
 import type { RecipeName } from '../shared/decoder/recipes';
+import type { CovarianceMap } from '../shared/decoder/recipes/covariance-map';
 import { fitDecoder } from '../shared/decoder/train';
 import { edfToRecording, readEdf } from '../shared/formats/edf';
 
@@ -44,8 +46,9 @@ function time(f: () => unknown): { ms: number[]; cpuMs: number } {
   return { ms, cpuMs: (c.user + c.system) / 1000 / reps };
 }
 
-for (const recipe of ['covariance', 'component-tf'] as RecipeName[]) {
-  const artifact = fitDecoder(runs, { recipe, classes: ['T1', 'T2'], seed: 0 });
+const variants: [RecipeName, CovarianceMap | null][] = [['covariance', 'log'], ['covariance', 'linear'], ['component-tf', null]];
+for (const [recipe, map] of variants) {
+  const artifact = fitDecoder(runs, { recipe, classes: ['T1', 'T2'], seed: 0, ...(map === null ? {} : { recipeOptions: { covarianceMap: map } }) });
   const decoder = loadDecoder(JSON.parse(JSON.stringify(artifact)) as unknown);
   const rec = runs[2]!;
   const fs = rec.sampleRateHz;
@@ -58,7 +61,8 @@ for (const recipe of ['covariance', 'component-tf'] as RecipeName[]) {
   const stream = createDecoderStream(decoder);
   stream.push(data.map((ch) => ch.subarray(0, start + decoder.epochLength)));
   const filtered: FilteredEpoch = stream.epochAt(cue)!;
-  const selected = artifact.model.kind === 'component-tf' ? `${artifact.model.selected.length} of ${artifact.model.fittedComponents} components` : `rank-${artifact.model.rank} covariance`;
+  const selected = artifact.model.kind === 'component-tf' ? `${artifact.model.selected.length} of ${artifact.model.fittedComponents} components`
+    : `rank-${artifact.model.rank} covariance, ${artifact.model.map ?? 'linear'} map`;
   console.log(`${recipe} (${selected}; ${decoder.preprocess.channelNames.length} channels, epoch ${decoder.epochLength} samples at ${fs} Hz):`);
   console.log(`  raw       ${stats(time(() => predictRawEpoch(decoder, rawOnly)))}`);
   console.log(`  raw+1s    ${stats(time(() => predictRawEpoch(decoder, rawRunIn)))}`);

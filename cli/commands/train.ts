@@ -1,6 +1,7 @@
 // `aftercue train`: nested cross-validation and the frozen decoder from EDF/BDF recordings.
 // Writes the sealed decoder artifact (MODEL.json) and the training report (REPORT.json); a
 // plain-text progress bar on stderr is updated in place with carriage returns.
+import { COVARIANCE_MAPS, DEFAULT_COVARIANCE_MAP, type CovarianceMap } from '../../shared/decoder/recipes/covariance-map';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { basename } from 'node:path';
 import { InvalidArgumentError, type Command } from 'commander';
@@ -47,7 +48,7 @@ export function progressLine(p: TrainProgress, elapsedS: number, width = 30): st
 interface TrainCliOptions {
   edf: string[]; classes: [string, string]; tmin: number; tmax: number; out: string; report: string;
   recipe: RecipeName; folds: number; inner: number; repeats: number; seed: number; components?: number;
-  prior: boolean; baselines: boolean;
+  prior: boolean; baselines: boolean; covarianceMap?: CovarianceMap;
 }
 
 export function register(program: Command): void {
@@ -70,6 +71,10 @@ export function register(program: Command): void {
     .option('--seed <n>', 'seed of the fold plans and ICA', int(0), 0)
     .option('--components <n>', 'ICA components (component-tf, default 15) or covariance rank (covariance, default: all channels)', int(1))
     .option('--no-prior', 'switch the component plausibility prior off (all w_k = 1)')
+    .option('--covariance-map <map>', `covariance recipe's feature map: ${COVARIANCE_MAPS.join(' | ')} (default ${DEFAULT_COVARIANCE_MAP}; log = tangent space)`, (v: string) => {
+      if (!COVARIANCE_MAPS.includes(v as CovarianceMap)) throw new InvalidArgumentError(`expected ${COVARIANCE_MAPS.join(' or ')}, got '${v}'`);
+      return v as CovarianceMap;
+    })
     .option('--no-baselines', 'skip the CSP + LDA and band power + logistic baselines')
     .action((o: TrainCliOptions) => {
       const recordings = o.edf.map(readRecording);
@@ -80,6 +85,7 @@ export function register(program: Command): void {
         recipe: o.recipe, classes: o.classes, tminS: o.tmin, tmaxS: o.tmax, folds: o.folds, inner: o.inner,
         repeats: o.repeats, seed: o.seed, prior: o.prior, baselines: o.baselines, sourceNames: o.edf.map((f) => basename(f)),
         ...(o.components !== undefined ? { components: o.components } : {}),
+        ...(o.covarianceMap !== undefined ? { recipeOptions: { covarianceMap: o.covarianceMap } } : {}),
       }, (p) => {
         const now = performance.now();
         if (p.done !== p.total && now - last < 200) return;

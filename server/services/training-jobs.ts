@@ -33,6 +33,7 @@ interface JobParams extends Required<Pick<CreateTrainingJobRequest, 'recordingId
   classes: string[];
   components?: number;
   prior?: boolean;
+  covarianceMap?: CreateTrainingJobRequest['covarianceMap'];
 }
 
 /** Minimum interval between progress writes, ms (stage changes are always written). */
@@ -97,6 +98,7 @@ export function trainingJobService(ctx: AppContext, opts: TrainingJobServiceOpti
       recipe: p.recipe, classes: s.cueClasses, annotationClasses: p.classes, channelNames: s.channelNames,
       sampleRateHz: s.sampleRateHz, epochStartS: s.epochStartS, epochEndS: s.epochEndS, powerLineHz: s.powerLineHz,
       folds: p.folds, inner: p.inner, seed: p.seed, components: p.components, prior: p.prior,
+      ...(p.covarianceMap !== undefined ? { covarianceMap: p.covarianceMap } : {}),
     };
   }
 
@@ -224,6 +226,7 @@ export function trainingJobService(ctx: AppContext, opts: TrainingJobServiceOpti
           seed: input.seed ?? TRAINING_DEFAULTS.seed,
           ...(input.components !== undefined ? { components: input.components } : {}),
           ...(input.prior !== undefined ? { prior: input.prior } : {}),
+          ...(input.covarianceMap !== undefined ? { covarianceMap: input.covarianceMap } : {}),
         };
         const row = insertTrainingJob(db, { studyId, name: input.name, params: { ...params }, purpose: 'user', createdBy: actor.id }, now);
         writeAudit(db, actor, { action: 'training.create', targetType: 'training-job', targetId: row.id,

@@ -82,8 +82,9 @@ export function interpretArtifact(a: DecoderArtifact, report?: Record<string, un
   // Every non-zero singular value, so that `rank` is the component's rank.
   const i = interpretDecoder(a, Number.POSITIVE_INFINITY);
   if (i.recipe === 'covariance') {
-    return { recipe: 'covariance', spatialPatterns: i.spatialPatterns.map((p) => ({
-      channelNames: p.channelNames, values: p.pattern, eigenvalue: p.eigenvalue, filter: p.filter, favours: p.favours })) };
+    return { recipe: 'covariance', covarianceMap: a.model.kind === 'covariance' ? a.model.map ?? 'linear' : 'linear',
+      spatialPatterns: i.spatialPatterns.map((p) => ({
+        channelNames: p.channelNames, values: p.pattern, eigenvalue: p.eigenvalue, filter: p.filter, favours: p.favours })) };
   }
   const patterns = reportedPatterns(report);
   return { recipe: 'component-tf', components: i.components.map((c) => {

@@ -36,6 +36,7 @@ export function fitDecoder(recordings: Recording[], o: TrainOptions, sourceNames
     folds: o.folds, inner: o.inner, seed: o.seed, sourceNames,
     ...(o.components !== undefined ? { components: o.components } : {}),
     ...(o.prior !== undefined ? { prior: o.prior } : {}),
+    ...(o.covarianceMap !== undefined ? { recipeOptions: { covarianceMap: o.covarianceMap } } : {}),
   }, (p) => { const d = describeProgress(p); onProgress(d.fraction, d.stage); });
   // Re-read what was sealed, exactly as an import would: the stored text is the canonical form.
   const sealed = readSealedArtifact(JSON.parse(JSON.stringify(artifact)) as unknown);

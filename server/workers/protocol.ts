@@ -2,6 +2,7 @@
  * Messages between the server and a training worker thread (structured clone; typed arrays are
  * copied or transferred). One worker runs one task and exits.
  */
+import type { CovarianceMap } from '../../shared/decoder/recipes/covariance-map';
 import type { DecoderInterpretation } from '../../shared/api/decoders';
 import type { Recipe } from '../../shared/api/studies';
 import type { EdfFormat } from '../../shared/formats/edf';
@@ -38,6 +39,7 @@ export interface TrainOptions {
   seed: number;
   components?: number;
   prior?: boolean;
+  covarianceMap?: CovarianceMap;
 }
 
 export type TrainTask =

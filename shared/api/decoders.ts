@@ -133,6 +133,8 @@ export const decoderInterpretationSchema = z.object({
   recipe: z.enum(RECIPES),
   components: z.array(componentInterpretationSchema).optional(),
   spatialPatterns: z.array(spatialPatternSchema).optional(),
+  /** Covariance decoders: the feature map ('log': tangent space; absent in older interpretations: 'linear'). */
+  covarianceMap: z.enum(['linear', 'log']).optional(),
 });
 export type DecoderInterpretation = z.infer<typeof decoderInterpretationSchema>;
 

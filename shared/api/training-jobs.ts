@@ -9,6 +9,7 @@
  * GET /api/training-jobs?studyId=N -> TrainingJob[] (newest first)
  * GET /api/training-jobs/:jobId -> TrainingJob (poll it: progress and stage move while it runs)
  */
+import { COVARIANCE_MAPS, type CovarianceMap } from '../decoder/recipes/covariance-map';
 import { z } from 'zod';
 import { idParamSchema, idSchema, isoTimestampSchema } from './common';
 import { RECIPES } from './studies';
@@ -49,6 +50,8 @@ export const createTrainingJobRequestSchema = z.strictObject({
   components: z.number().int().min(1).max(TRAINING_LIMITS.componentsMax).optional(),
   /** Cortical plausibility prior on (default) or off (component-tf recipe). */
   prior: z.boolean().optional(),
+  /** Covariance recipe's feature map: 'log' (tangent space) or 'linear' (default: the recipe's). */
+  covarianceMap: z.enum(COVARIANCE_MAPS as [CovarianceMap, ...CovarianceMap[]]).optional(),
 });
 export type CreateTrainingJobRequest = z.infer<typeof createTrainingJobRequestSchema>;
 

@@ -69,6 +69,8 @@ export interface CovarianceModel {
   bias: number;
   lambda: number;
   rank: number;
+  /** Feature map (recipes/covariance.ts); absent in artifacts written before it existed, i.e. 'linear'. */
+  map?: 'linear' | 'log';
 }
 
 /** The whole artifact (format version 1). */
@@ -183,6 +185,7 @@ export function parseArtifact(value: unknown): DecoderArtifact {
       const n = decodeF64(m[k], `artifact.model.${k}`).length;
       if (n !== m.rank * m.rank) throw new ShapeError(`artifact.model.${k}`, `expected ${m.rank * m.rank} values, got ${n}`);
     }
+    if (m.map !== undefined && m.map !== 'linear' && m.map !== 'log') throw new ShapeError('artifact.model.map', `expected 'linear' or 'log', got ${String(m.map)}`);
   } else {
     throw new ShapeError('artifact.model.kind', `expected 'component-tf' or 'covariance', got ${String(model.kind)}`);
   }

@@ -25,6 +25,8 @@ import {
   type PreprocessSpec, type RawSegment, type StreamOptions,
 } from './online';
 import { symmetricEig } from '../linalg/symmetric-eig';
+import { createSpdLogWorkspace } from '../linalg/spd-log';
+import { covarianceFeature } from './recipes/covariance';
 import { decodeF64, decodeRows } from './pipeline';
 import { binnedLogPower, morletGrid } from './recipes/morlet-stage';
 import { sigmoid } from './tracenorm-data';
@@ -122,6 +124,7 @@ function covarianceDecision(m: CovarianceModel): (x: ChannelMajor) => number {
   const r = p.length;
   const c = p[0]?.length ?? 0;
   if (w.length !== r * r) throw new ShapeError('model.weight', `expected ${r * r} values, got ${w.length}`);
+  if (m.map === 'log') return logCovarianceDecision(m, p, centre, w);
   const sym = new Float64Array(r * r);
   let offset = m.bias;
   for (let i = 0; i < r; i++) {
@@ -175,6 +178,29 @@ function covarianceDecision(m: CovarianceModel): (x: ChannelMajor) => number {
       acc += gains[j]! * (q / n);
     }
     return offset + acc;
+  };
+}
+
+/**
+ * The covariance decision with the tangent-space map (recipes/covariance.ts, map 'log'): the
+ * matrix logarithm needs the whole whitened covariance, so this is the stage's own feature
+ * function (covarianceFeature) followed by ⟨W, F⟩ + b; no low-rank shortcut.
+ */
+function logCovarianceDecision(m: CovarianceModel, p: Float64Array[], centre: Float64Array, w: Float64Array): (x: ChannelMajor) => number {
+  const r = p.length;
+  const c = p[0]?.length ?? 0;
+  const feature = new Float64Array(r * r);
+  const cov = new Float64Array(c * c);
+  const s = new Float64Array(r * r);
+  const logWs = createSpdLogWorkspace(r);
+  let scratch = new Float64Array(0);
+  return (x) => {
+    const n = x[0]?.length ?? 0;
+    if (scratch.length < c * n) scratch = new Float64Array(c * n);
+    covarianceFeature(p, centre, m.scale, x as Float64Array[], feature, 0, cov, s, scratch, logWs);
+    let z = m.bias;
+    for (let j = 0; j < r * r; j++) z += w[j]! * feature[j]!;
+    return z;
   };
 }
 

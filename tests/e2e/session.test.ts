@@ -101,6 +101,8 @@ describe('a pilot session in the browser', () => {
     await page.locator('[data-test="train-decoder"]').click();
     const dialog = page.getByRole('dialog', { name: 'Train a decoder' });
     await dialog.getByText('Spatial covariance').click();
+    // The covariance recipe's feature map: the tangent-space (log) choice must reach the trained decoder.
+    await dialog.getByText('log (tangent space)').click();
     await dialog.locator('input[name="name"]').fill('Trained in the browser');
     // 3 outer folds keep the job short; the rest as the dialog proposes (study classes, seed 1).
     const folds = dialog.locator('[data-field="folds"] input');
@@ -114,6 +116,7 @@ describe('a pilot session in the browser', () => {
     await page.waitForURL(/\/decoders\/\d+$/, { timeout: 150_000 });
     await page.getByRole('heading', { name: 'Trained in the browser' }).waitFor();
     expect(await page.locator('[data-test="decoder-status"]').innerText()).toBe('Draft');
+    await page.getByText('the features are the log of the whitened covariance (tangent space)', { exact: false }).waitFor();
     // An experimenter may not freeze (shared/api/roles.ts decoder:freeze is investigator and admin).
     expect(await page.locator('[data-test="freeze"]').count()).toBe(0);
     expect(consoleErrors.filter((m) => !/status of 401/.test(m))).toEqual([]);

@@ -52,6 +52,7 @@ describe('training jobs', () => {
   it('trains in a worker thread with progress and leaves a draft decoder with its report', async () => {
     const res = await experimenter.post(`/api/studies/${studyId}/training-jobs`, {
       recordingIds: [recordingId], name: 'Small covariance', classes: ['left-hand', 'right-hand'], folds: 3, inner: 2, seed: 5,
+      covarianceMap: 'log',
     });
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ status: 'queued', progress: 0, decoderId: null, studyId, name: 'Small covariance' });
@@ -77,6 +78,9 @@ describe('training jobs', () => {
     // Stratified 3-fold on 30 trials gives folds of 10: the overall accuracy is the mean of the fold accuracies.
     expectClose(detail.cvAccuracy!, folds.reduce((a, b) => a + b, 0) / folds.length, { atol: 1e-12 });
     expect(detail.interpretation?.recipe).toBe('covariance');
+    // The request's feature map reaches the trainer, the report and the interpretation (not the default 'linear').
+    expect((report.settings as { map?: string }).map).toBe('log');
+    expect(detail.interpretation?.covarianceMap).toBe('log');
   });
 
   it('refuses recordings that lack a study class, naming the class', async () => {

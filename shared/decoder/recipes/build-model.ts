@@ -63,6 +63,7 @@ export function covarianceModel(fp: FittedPipeline<unknown>): CovarianceModel {
   return {
     kind: 'covariance', whitening: encodeRows(cov.whitening), patternBasis: encodeRows(cov.dewhitening), centre: encodeF64(cov.centre), scale: cov.scale,
     weight: encodeF64(clf.model.weights[0]!), bias: clf.model.bias, lambda: clf.model.lambda, rank: cov.whitening.length,
+    ...(cov.map === 'log' ? { map: 'log' as const } : {}),
   };
 }
 

@@ -7,14 +7,27 @@
  *   C_i = (X_i − m_i)(X_i − m_i)ᵀ / T       per trial, X_i [channel][sample], m_i channel means
  *   C̄ = mean_i C_i = V Λ Vᵀ;  P = Λ_r^(−1/2) V_rᵀ  (r×C; eigenvalues ≤ 1e-10·λ_max dropped, so
  *       rank-deficient data such as CAR-referenced EEG work; r = C otherwise)
- *   S_i = P C_i Pᵀ (r×r);  centre S̄ = mean_i S_i (≈ I);  scale s = RMS entry of S_i − S̄
+ *   S_i = P C_i Pᵀ (r×r);  map 'log': S_i ← log S_i (matrix logarithm, linalg/spd-log.ts)
+ *   centre S̄ = mean_i S_i (≈ I, or ≈ 0 for 'log');  scale s = RMS entry of S_i − S̄
  *   feature F_i = (S_i − S̄)/s, one r×r block.
+ * Map 'linear' (the covariance itself) is the form of Tomioka & Müller 2010: the decision is
+ * linear in the band power of rank(W) spatially filtered signals. Map 'log' is the tangent-space
+ * (log-Euclidean) map at the training mean (Arsigny et al. 2007, SIAM J Matrix Anal Appl
+ * 29(1):328-347; Barachant et al. 2012, IEEE TBME 59(4):920-928, there at the Riemannian mean,
+ * here at the arithmetic one): log(C̄^(−1/2) C_i C̄^(−1/2)), up to the rotation Vᵀ, which the
+ * rotation-invariant trace norm does not see. Where W's eigenvectors u_j are eigenvectors of S_i,
+ * uᵀ log(S_i) u = log(uᵀ S_i u): the decision becomes linear in the LOG band power of the filtered
+ * signals, as CSP's features are (Ramoser et al. 2000), so a trial with outlying power moves it
+ * by its log rather than linearly. Near the mean (S_i ≈ I, log S_i ≈ S_i − I) the two maps agree,
+ * and the filter and pattern reading below holds for both to first order.
  * Whitening by the training mean makes the features invariant to any invertible mixing of the
  * channels (S_i → Q S_i Qᵀ with Q orthogonal, and the trace norm is rotation-invariant).
  * Interpretation (Haufe et al. 2014, NeuroImage 87:96-110): for W = Σ_j μ_j u_j u_jᵀ (symmetric
  * eigendecomposition), filter_j = Pᵀ u_j (C), pattern_j = C̄ filter_j = V_r Λ_r^(1/2) u_j.
  */
+import { createSpdLogWorkspace, spdLogInto, type SpdLogWorkspace } from '../../linalg/spd-log';
 import { symmetricEig } from '../../linalg/symmetric-eig';
+import { COVARIANCE_MAPS, DEFAULT_COVARIANCE_MAP, type CovarianceMap } from './covariance-map';
 import { ParamError, ShapeError, type Epochs } from '../../types';
 import { checkEpochs } from '../epochs';
 import {
@@ -30,7 +43,10 @@ export interface FittedWhitenedCovariance extends Fitted<Epochs, MatrixTrials> {
   readonly dewhitening: Float64Array[]; // [channel][r], V_r Λ_r^(1/2) (patterns = this · u)
   readonly centre: Float64Array; // [r·r], S̄ row-major
   readonly scale: number;
+  readonly map: CovarianceMap;
 }
+
+export { COVARIANCE_MAPS, type CovarianceMap } from './covariance-map';
 
 /**
  * Mean-removed spatial covariance X Xᵀ / T of one trial, C×C row-major. Four channel pairs per
@@ -103,19 +119,23 @@ function congruence(p: readonly Float64Array[], cov: Float64Array, c: number, ou
 }
 
 /**
- * The feature of one trial, F = (P C Pᵀ − S̄)/s (module comment), written to out[offset ..
- * offset + r²); `cov` (C²) and `s` (r²) are scratch buffers. The fitted stage and the frozen
- * decoder (predict.ts) both call this, so they compute the same numbers.
+ * The feature of one trial, F = (map(P C Pᵀ) − S̄)/s (module comment), written to out[offset ..
+ * offset + r²); `cov` (C²) and `s` (r²) are scratch buffers, `logWs` the logarithm's buffers for
+ * map 'log' (null: map 'linear'). The fitted stage and the frozen decoder (predict.ts) both call
+ * this, so they compute the same numbers.
  */
 export function covarianceFeature(whitening: readonly Float64Array[], centre: Float64Array, scale: number, trial: Float64Array[],
-                                  out: Float64Array, offset: number, cov: Float64Array, s: Float64Array, scratch?: Float64Array): void {
+                                  out: Float64Array, offset: number, cov: Float64Array, s: Float64Array, scratch?: Float64Array,
+                                  logWs: SpdLogWorkspace | null = null): void {
   const r = whitening.length;
   const c = trial.length;
   congruence(whitening, trialCovariance(trial, cov, scratch), c, s);
+  if (logWs !== null) spdLogInto(s, 0, s, 0, logWs);
   for (let j = 0; j < r * r; j++) out[offset + j] = (s[j]! - centre[j]!) / scale;
 }
 
-function makeFitted(whitening: Float64Array[], dewhitening: Float64Array[], centre: Float64Array, scale: number): FittedWhitenedCovariance {
+function makeFitted(whitening: Float64Array[], dewhitening: Float64Array[], centre: Float64Array, scale: number,
+                    map: CovarianceMap): FittedWhitenedCovariance {
   const r = whitening.length;
   const c = whitening[0]?.length ?? 0;
   const transform = (x: Epochs): MatrixTrials => {
@@ -123,12 +143,13 @@ function makeFitted(whitening: Float64Array[], dewhitening: Float64Array[], cent
     const out = new Float64Array(x.length * r * r);
     const cov = new Float64Array(c * c);
     const s = new Float64Array(r * r);
-    x.forEach((trial, i) => covarianceFeature(whitening, centre, scale, trial, out, i * r * r, cov, s));
+    const logWs = map === 'log' ? createSpdLogWorkspace(r) : null;
+    x.forEach((trial, i) => covarianceFeature(whitening, centre, scale, trial, out, i * r * r, cov, s, undefined, logWs));
     return { features: { nTrials: x.length, blocks: [{ rows: r, cols: r, symmetric: true }], x: out }, blockWeights: Float64Array.of(1) };
   };
   return {
-    kind: 'whitened-covariance', whitening, dewhitening, centre, scale, transform,
-    toArtifact: () => ({ kind: 'whitened-covariance', version: 1, params: {},
+    kind: 'whitened-covariance', whitening, dewhitening, centre, scale, map, transform,
+    toArtifact: () => ({ kind: 'whitened-covariance', version: 1, params: { map },
                          learned: { whitening: encodeRows(whitening), dewhitening: encodeRows(dewhitening), centre: encodeF64(centre), scale } }),
   };
 }
@@ -144,16 +165,20 @@ export type WhitenedCovarianceParams = {
    * covariances vary most (label-free). Default 'fluctuation' (see module comment).
    */
   subspace?: 'variance' | 'fluctuation';
+  /** Feature map (module comment), default 'linear'. A reduced rank's directions are chosen on the linear covariances either way. */
+  map?: CovarianceMap;
 };
 
 /** Stage: whitened, centred, scaled trial covariances (module comment). */
 export function whitenedCovarianceStage(params: WhitenedCovarianceParams = {}): Stage<Epochs, MatrixTrials> {
   const rank = params.rank ?? null;
   const subspace = params.subspace ?? 'fluctuation';
+  const map = params.map ?? 'linear';
+  if (!COVARIANCE_MAPS.includes(map)) throw new ParamError('map', `expected one of ${COVARIANCE_MAPS.join(', ')}, got ${String(map)}`);
   if (rank !== null && !(Number.isInteger(rank) && rank >= 1)) throw new ParamError('rank', `expected an integer >= 1 or null, got ${rank}`);
   if (subspace !== 'variance' && subspace !== 'fluctuation') throw new ParamError('subspace', `expected 'variance' or 'fluctuation', got ${String(subspace)}`);
   return {
-    kind: 'whitened-covariance', params: { rank, subspace },
+    kind: 'whitened-covariance', params: { rank, subspace, map },
     fit(x) {
       const { trials, channels: c } = checkEpochs(x);
       if (trials < 2) throw new ShapeError('epochs', `expected at least 2 training trials, got ${trials}`);
@@ -183,11 +208,16 @@ export function whitenedCovarianceStage(params: WhitenedCovarianceParams = {}): 
         s = covs.map((cv) => congruence(whitening, cv, c, new Float64Array(r * r)));
         centre = meanOf(s, r * r);
       }
+      if (map === 'log') {
+        const ws = createSpdLogWorkspace(r);
+        for (const si of s) spdLogInto(si, 0, si, 0, ws);
+        centre = meanOf(s, r * r);
+      }
       let ss = 0;
       for (const si of s) for (let j = 0; j < r * r; j++) ss += (si[j]! - centre[j]!) ** 2;
       const scale = Math.sqrt(ss / (trials * r * r));
       if (!(scale > 0)) throw new ShapeError('epochs', 'expected trials whose covariances differ, got identical covariances');
-      return makeFitted(whitening, dewhitening, centre, scale);
+      return makeFitted(whitening, dewhitening, centre, scale, map);
     },
   };
 }
@@ -225,7 +255,9 @@ export function whitenedCovarianceFromArtifact(a: StageArtifact): FittedWhitened
   if (centre.length !== whitening.length ** 2) throw new ShapeError('learned.centre', `expected ${whitening.length ** 2} values, got ${centre.length}`);
   const scale = numberField(a.learned, 'scale', 'learned');
   if (!(scale > 0)) throw new ParamError('learned.scale', `expected > 0, got ${scale}`);
-  return makeFitted(whitening, decodeRows(a.learned.dewhitening, 'learned.dewhitening'), centre, scale);
+  const map = a.params.map ?? 'linear';
+  if (!COVARIANCE_MAPS.includes(map as CovarianceMap)) throw new ParamError('params.map', `expected one of ${COVARIANCE_MAPS.join(', ')}, got ${String(map)}`);
+  return makeFitted(whitening, decodeRows(a.learned.dewhitening, 'learned.dewhitening'), centre, scale, map as CovarianceMap);
 }
 
 registerStageKind('whitened-covariance', whitenedCovarianceFromArtifact);
@@ -235,6 +267,7 @@ export const COVARIANCE_DEFAULTS = {
   bandpassHz: [8, 30] as [number, number],
   order: 4,
   window: { tminS: 0.5, tmaxS: 2.5 },
+  map: DEFAULT_COVARIANCE_MAP,
   // CAR is a rank-reducing channel map; whitening already makes the features invariant to
   // invertible channel maps, so CAR would only remove one dimension.
   car: false,

@@ -21,7 +21,7 @@ import type { IcaMethod } from '../../ica/ica';
 import { ParamError } from '../../types';
 import type { AnyStage } from '../pipeline';
 import { designPreprocessing, epochSamples, type EpochWindow, type PreprocessSpec } from '../online';
-import { COVARIANCE_DEFAULTS, whitenedCovarianceStage } from './covariance';
+import { COVARIANCE_DEFAULTS, whitenedCovarianceStage, type CovarianceMap } from './covariance';
 import { icaStage } from './ica-stage';
 import { matrixStandardizeStage } from './matrix-standardize';
 import { MORLET_DEFAULTS, timedMorletFeatureStage, type MorletFeatureParams } from './morlet-stage';
@@ -42,6 +42,8 @@ export interface RecipeOptions {
   components?: number;
   /** Directions kept by the covariance rank reduction (recipes/covariance.ts; default 'fluctuation'). */
   covarianceSubspace?: 'variance' | 'fluctuation';
+  /** Covariance feature map (recipes/covariance.ts): 'linear' or 'log' (tangent space); default COVARIANCE_DEFAULTS.map. */
+  covarianceMap?: CovarianceMap;
   /** Plausibility prior on (default true); component-tf only. */
   prior?: boolean;
   icaMethod?: IcaMethod;
@@ -78,9 +80,10 @@ export function planRecipe(opts: RecipeOptions, sampleRateHz: number, channelNam
                                              car: opts.car ?? COVARIANCE_DEFAULTS.car });
     const rank = Math.min(opts.components ?? channelNames.length, channelNames.length);
     const subspace = opts.covarianceSubspace ?? 'fluctuation';
+    const map = opts.covarianceMap ?? COVARIANCE_DEFAULTS.map;
     return {
-      recipe: 'covariance', preprocess, window, settings: { rank, subspace, lambda },
-      stages: (clock) => [whitenedCovarianceStage({ rank, subspace }) as AnyStage, traceNormCvStage(lambda, clock) as AnyStage],
+      recipe: 'covariance', preprocess, window, settings: { rank, subspace, map, lambda },
+      stages: (clock) => [whitenedCovarianceStage({ rank, subspace, map }) as AnyStage, traceNormCvStage(lambda, clock) as AnyStage],
     };
   }
   const window = opts.window ?? { tminS: -0.5, tmaxS: 4 };

@@ -33,6 +33,17 @@ describe.each(['covariance', 'component-tf'] as const)('the %s artifact', (recip
     expect(new Set(ours).size).toBeGreaterThan(1);
   });
 
+  it('predicts exactly as the fitted pipeline with the other covariance map', () => {
+    if (recipe !== 'covariance') return;
+    const other = fittedDecoder('covariance', { covarianceMap: artifact.model.kind === 'covariance' && artifact.model.map === 'log' ? 'linear' : 'log' });
+    const decoder = loadDecoder(JSON.parse(serialiseArtifact(other.artifact)) as unknown);
+    const ours = Float64Array.from(other.test, (data, i) => predictFilteredEpoch(decoder, { kind: 'filtered-epoch', data, cueSample: i, filledSamples: 0 }).probability);
+    // Source: invariant, as above (the 'log' map has no low-rank shortcut; the 'linear' one does).
+    expectAllClose(ours, other.fp.predictProba(other.test), { rtol: 0, atol: 1e-12 });
+    expect(new Set(ours).size).toBeGreaterThan(1);
+    expect(other.artifact.model.kind === 'covariance' && (other.artifact.model.map ?? 'linear')).not.toBe(artifact.model.kind === 'covariance' && (artifact.model.map ?? 'linear'));
+  });
+
   it('keeps only the selected components\' unmixing rows', () => {
     if (artifact.model.kind !== 'component-tf') return;
     const rows = (artifact.model.unmixing as { rows: number }).rows;

@@ -4,6 +4,7 @@ import { preprocessRecording } from '../../../../shared/decoder/online';
 import { fitPipeline, type AnyStage } from '../../../../shared/decoder/pipeline';
 import { planRecipe } from '../../../../shared/decoder/recipes';
 import { whitenedCovarianceStage } from '../../../../shared/decoder/recipes/covariance';
+import { spdLog } from '../../../../shared/linalg/spd-log';
 import { icaStage } from '../../../../shared/decoder/recipes/ica-stage';
 import { binnedLogPower, morletGrid } from '../../../../shared/decoder/recipes/morlet-stage';
 import { traceNormCvStage } from '../../../../shared/decoder/recipes/tracenorm-cv';
@@ -38,14 +39,14 @@ describe('binned Morlet log power', () => {
   });
 });
 
-describe('whitened covariance features', () => {
+describe.each(['linear', 'log'] as const)('whitened covariance features, %s map', (map) => {
   const rec = syntheticRecording({ seed: 8, trials: 30 });
   const plan = planRecipe({ recipe: 'covariance' }, rec.sampleRateHz, rec.channelNames);
   const e = epochRecording(preprocessRecording(plan.preprocess, rec), { classes: ['left', 'right'] }, 0.5, 2.5);
   const train = e.epochs.slice(0, 24), test = e.epochs.slice(24), y = e.labels.slice(0, 24);
 
   it('are centred with unit RMS on the training trials', () => {
-    const f = whitenedCovarianceStage().fit(train).transform(train).features.x;
+    const f = whitenedCovarianceStage({ map }).fit(train).transform(train).features.x;
     const dim = f.length / 24;
     let ms = 0;
     const mean = new Float64Array(dim);
@@ -56,11 +57,11 @@ describe('whitened covariance features', () => {
   });
 
   it('form one symmetric block, and the classifier keeps its weight symmetric', () => {
-    const x = whitenedCovarianceStage().fit(train).transform(train);
+    const x = whitenedCovarianceStage({ map }).fit(train).transform(train);
     const r = train[0]!.length;
     // Source: covariance.ts module comment (one r×r block per trial, F_i = (P C_i Pᵀ − S̄)/s is symmetric).
     expect(x.features.blocks).toEqual([{ rows: r, cols: r, symmetric: true }]);
-    const w = fitPipeline([whitenedCovarianceStage() as AnyStage, traceNormCvStage({ count: 4 }) as AnyStage], train, y, { seed: 1, innerK: 3 })
+    const w = fitPipeline([whitenedCovarianceStage({ map }) as AnyStage, traceNormCvStage({ count: 4 }) as AnyStage], train, y, { seed: 1, innerK: 3 })
       .stages[1] as unknown as { model: { weights: Float64Array[]; lambda: number } };
     const wk = w.model.weights[0]!;
     for (let i = 0; i < r; i++) for (let j = 0; j < i; j++) {
@@ -78,11 +79,22 @@ describe('whitened covariance features', () => {
       row.forEach((w, j) => { for (let t = 0; t < out.length; t++) out[t]! += w * trial[j]![t]!; });
       return out;
     }));
-    const stages = (): AnyStage[] => [whitenedCovarianceStage() as AnyStage, traceNormCvStage({ count: 5, tol: 1e-9, maxIter: 20000 }) as AnyStage];
+    const stages = (): AnyStage[] => [whitenedCovarianceStage({ map }) as AnyStage, traceNormCvStage({ count: 5, tol: 1e-9, maxIter: 20000 }) as AnyStage];
     const p1 = fitPipeline(stages(), train, y, { seed: 1, innerK: 3 }).predictProba(test);
     const p2 = fitPipeline(stages(), mix(train), y, { seed: 1, innerK: 3 }).predictProba(mix(test));
-    // Source: covariance.ts (S_i → Q S_i Qᵀ, Q orthogonal; trace norm and loss unchanged); solver tolerance limits agreement.
+    // Source: covariance.ts (S_i → Q S_i Qᵀ, Q orthogonal, and log(Q S Qᵀ) = Q log(S) Qᵀ; trace norm and loss
+    // unchanged); solver tolerance limits agreement.
     expectAllClose(p2, p1, { atol: 1e-5 });
+  });
+
+  it('apply the matrix logarithm to the whitened covariance with the log map', () => {
+    const lin = whitenedCovarianceStage({ map: 'linear' }).fit(train) as unknown as { whitening: Float64Array[]; centre: Float64Array; scale: number; transform: (x: typeof train) => { features: { x: Float64Array } } };
+    const log = whitenedCovarianceStage({ map: 'log' }).fit(train) as unknown as typeof lin;
+    const r = lin.whitening.length;
+    const s0 = lin.transform(test.slice(0, 1)).features.x.map((v, j) => v * lin.scale + lin.centre[j]!);
+    const l0 = log.transform(test.slice(0, 1)).features.x.map((v, j) => v * log.scale + log.centre[j]!);
+    // Definition (Arsigny et al. 2007): the log map's feature is log S of the linear map's S = P C Pᵀ (same P).
+    expectAllClose(l0, spdLog(s0, r), { rtol: 1e-9, atol: 1e-12 });
   });
 });
 
