@@ -18,7 +18,7 @@ const runs: [string, string[]][] = [
   ['bench/predict.ts', []],
   ['simulator/bench.ts', []],
   ['bench/demo-flags.ts', []],
-  ...(full ? [['bench/eegmmidb.ts', []], ['bench/live.ts', ['--json']], ['bench/console.ts', ['--json']]] as [string, string[]][] : []),
+  ...(full ? [['bench/eegmmidb.ts', ['--jobs', '2']], ['bench/live.ts', ['--json']], ['bench/console.ts', ['--json']]] as [string, string[]][] : []),
 ];
 
 let failed = 0;
