@@ -95,9 +95,11 @@ export function liveDecoderFromLoaded(d: LoadedDecoder): LiveDecoder {
     // Probabilities in class order: P(classes[0]) = 1 - P(classes[1]).
     return Float64Array.of(1 - p, p);
   };
-  if (!warmedRecipes.has(d.artifact.recipe)) {
+  // The covariance recipe's two feature maps run different decision code (predict.ts).
+  const codePath = d.artifact.model.kind === 'covariance' ? `covariance-${d.artifact.model.map ?? 'linear'}` : d.artifact.recipe;
+  if (!warmedRecipes.has(codePath)) {
     warmUp(score, spec.channelNames.length, epoch.length);
-    warmedRecipes.add(d.artifact.recipe);
+    warmedRecipes.add(codePath);
   }
   return {
     classes: [...d.classes],
@@ -122,8 +124,9 @@ export function liveDecoderFromLoaded(d: LoadedDecoder): LiveDecoder {
 /** Predictions run at load so that the first cue of a session does not pay for V8's compilation. */
 const WARM_UP_RUNS = 12;
 /**
- * Recipes whose decision code this process has warmed up. V8 compiles per function, and every
- * decoder of a recipe runs the same functions, so one warm-up per recipe and process suffices:
+ * Decision code paths (the recipe, and for covariance its feature map) this process has warmed
+ * up. V8 compiles per function, and every decoder of one code path runs the same functions, so
+ * one warm-up per path and process suffices:
  * later sessions load without the extra main-thread work (up to ~60 ms for component-tf at
  * 1000 Hz) that would delay the running sessions' trials.
  */
