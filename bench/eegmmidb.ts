@@ -10,6 +10,7 @@
  *        [--jobs N]: N child processes, one subject each (the 2-core machine: --jobs 2); CPU is summed over them
  *        [--components N] (ICA components / covariance rank, as `aftercue train --components`) [--no-prior]
  *        [--covariance-map linear|log] (the covariance recipe's feature map, as `aftercue train --covariance-map`)
+ *        [--select-by accuracy|logLoss] (how the inner CV ranks λ; default accuracy, ties by log-loss)
  *        [--csp-only]: only CSP + shrinkage LDA, causal (as the product filters) and zero-phase (as the
  *        reference protocol filters: Butterworth order 4, 8-30 Hz, forward-backward on the continuous run)
  *        [--zero-phase]: the covariance recipe and CSP + shrinkage LDA, both on epochs filtered zero-phase
@@ -34,6 +35,7 @@ import { fitPipeline, type AnyStage } from '../shared/decoder/pipeline';
 import { loadDecoder, predictRecording } from '../shared/decoder/predict';
 import type { RecipeName } from '../shared/decoder/recipes';
 import { COVARIANCE_MAPS, type CovarianceMap } from '../shared/decoder/recipes/covariance-map';
+import type { SelectBy } from '../shared/evaluation/nested';
 import { EEGMMIDB_CITATION, fitDecoder, prepareTraining, runBaselines, trainDecoder, type TrainingReport } from '../shared/decoder/train';
 import { normaliseChannelName } from '../shared/montage';
 import { edfToRecording, readEdf } from '../shared/formats/edf';
@@ -65,7 +67,10 @@ const withBaselines = !process.argv.includes('--no-baselines');
 const jobs = Number(arg('--jobs') ?? 1);
 const covarianceMap = arg('--covariance-map') as CovarianceMap | undefined;
 if (covarianceMap !== undefined && !COVARIANCE_MAPS.includes(covarianceMap)) throw new Error(`--covariance-map: expected ${COVARIANCE_MAPS.join(' or ')}`);
-const recipeOptions = covarianceMap === undefined ? {} : { recipeOptions: { covarianceMap } };
+const selectBy = arg('--select-by') as SelectBy | undefined;
+if (selectBy !== undefined && selectBy !== 'accuracy' && selectBy !== 'logLoss') throw new Error('--select-by: expected accuracy or logLoss');
+const recipeOptions = covarianceMap === undefined && selectBy === undefined ? {}
+  : { recipeOptions: { ...(covarianceMap === undefined ? {} : { covarianceMap }), ...(selectBy === undefined ? {} : { lambda: { selectBy } }) } };
 
 function load(subject: string, run: string): Recording {
   return edfToRecording(readEdf(new Uint8Array(readFileSync(new URL(`${subject}${run}.edf`, DIR)))));
@@ -239,7 +244,7 @@ if (json) {
   const lines: string[] = [];
   lines.push(`eegmmidb S001-S010 subset, R04+R08+R12, T1 vs T2; stratified 10-fold x ${repeats} repeat(s), inner 5-fold; ours vs REFERENCE-ACCURACY.md (ref)` +
     `${components.components === undefined ? '' : `; components/rank ${components.components}`}${prior ? '' : '; prior off'}` +
-    `${covarianceMap === undefined ? '' : `; covariance map ${covarianceMap}`}`);
+    `${covarianceMap === undefined ? '' : `; covariance map ${covarianceMap}`}${selectBy === undefined ? '' : `; λ by inner ${selectBy}`}`);
   lines.push('| subject | trials | CSP+LDA | ref | bandpower+LR | ref | component-tf | ref | covariance | ref (1 split) | cv s (wall/cpu) comp-tf | cv s cov |');
   lines.push('|---|---|---|---|---|---|---|---|---|---|---|---|');
   const secs = (r: Row, k: string) => (r.recipes[k] ? `${r.recipes[k]!.cvSeconds.toFixed(0)}/${r.recipes[k]!.cvCpuSeconds?.toFixed(0)}` : '-');
