@@ -27,7 +27,7 @@ import { cspStage } from '../shared/decoder/baselines/csp';
 import { shrinkageLdaStage } from '../shared/decoder/baselines/shrinkage-lda';
 import { epochRecording } from '../shared/decoder/epochs';
 import { channelsInOrder, designPreprocessing, preprocessRecording } from '../shared/decoder/online';
-import { butterSos, sosfiltfilt } from '../shared/dsp';
+import { butterSos, sosfiltfilt, type Sos } from '../shared/dsp';
 import { crossValidate } from '../shared/evaluation/cross-validate';
 import { repeatedStratifiedKFold } from '../shared/evaluation/folds';
 import { summariseCv } from '../shared/decoder/recipes/report';
@@ -93,31 +93,31 @@ function cspLaterRun(train: Recording[], test: Recording): number {
   return pred.reduce((c, p, i) => c + (p === te.labels[i] ? 1 : 0), 0) / pred.length;
 }
 
-/** CSP + shrinkage LDA under the reference protocol's zero-phase 8-30 Hz filter, same outer folds as trainDecoder. */
-function cspZeroPhase(runs: Recording[], reps: number): number {
-  const sos = butterSos(4, [8, 30], 'bandpass', runs[0]!.sampleRateHz);
-  const eps = runs.map((r) => epochRecording({ ...r, data: sosfiltfilt(sos, channelsInOrder(r, r.channelNames)) }, { classes: ['T1', 'T2'] }, 0.5, 2.5));
+/**
+ * Nested CV of `stages` on epochs filtered zero-phase (forward-backward, on the continuous run: the
+ * reference protocol's filter, offline only), same outer folds as trainDecoder.
+ */
+function zeroPhaseCv(runs: Recording[], sos: Sos, channelNames: readonly string[], tminS: number, tmaxS: number,
+                     stages: () => AnyStage[], reps: number): { accuracy: number; labels: Uint8Array } {
+  const eps = runs.map((r) => epochRecording({ ...r, data: sosfiltfilt(sos, channelsInOrder(r, channelNames)) }, { classes: ['T1', 'T2'] }, tminS, tmaxS));
   const epochs = eps.flatMap((e) => e.epochs);
   const labels = Uint8Array.from(eps.flatMap((e) => Array.from(e.labels)));
   const plans = repeatedStratifiedKFold(labels, 10, reps, 0);
-  const folds = plans.map((p) => crossValidate(() => [cspStage({ pairs: 3 }) as AnyStage, shrinkageLdaStage() as AnyStage], epochs, labels, p));
-  return summariseCv(folds, labels, 1).accuracy;
+  return { accuracy: summariseCv(plans.map((pl) => crossValidate(stages, epochs, labels, pl, { innerK: 5 })), labels, 1).accuracy, labels };
 }
 
-/**
- * The covariance recipe's nested CV (its own stages, λ by inner 5-fold CV) on epochs filtered
- * zero-phase on the continuous run with the recipe's band-pass design, same outer folds as trainDecoder.
- */
+/** CSP + shrinkage LDA under the reference protocol's zero-phase 8-30 Hz filter (Butterworth order 4), epochs 0.5-2.5 s. */
+function cspZeroPhase(runs: Recording[], reps: number): number {
+  return zeroPhaseCv(runs, butterSos(4, [8, 30], 'bandpass', runs[0]!.sampleRateHz), runs[0]!.channelNames, 0.5, 2.5,
+                     () => [cspStage({ pairs: 3 }) as AnyStage, shrinkageLdaStage() as AnyStage], reps).accuracy;
+}
+
+/** The covariance recipe's nested CV (its own stages, λ by inner 5-fold CV) under the same zero-phase filter of its own band-pass design. */
 function covarianceZeroPhase(runs: Recording[], reps: number): number {
   const p = prepareTraining(runs, { recipe: 'covariance', classes: ['T1', 'T2'], ...recipeOptions });
-  const sos = p.plan.preprocess.bandpass.sos;
-  const eps = runs.map((r) => epochRecording({ ...r, data: sosfiltfilt(sos, channelsInOrder(r, p.channelNames)) }, { classes: ['T1', 'T2'] },
-                                             p.plan.window.tminS, p.plan.window.tmaxS));
-  const epochs = eps.flatMap((e) => e.epochs);
-  const labels = Uint8Array.from(eps.flatMap((e) => Array.from(e.labels)));
-  if (labels.some((l, i) => l !== p.data.labels[i])) throw new Error('zero-phase epochs do not match the recipe trials');
-  const plans = repeatedStratifiedKFold(labels, 10, reps, 0);
-  return summariseCv(plans.map((pl) => crossValidate(() => p.plan.stages(), epochs, labels, pl, { innerK: 5 })), labels, 1).accuracy;
+  const r = zeroPhaseCv(runs, p.plan.preprocess.bandpass.sos, p.channelNames, p.plan.window.tminS, p.plan.window.tmaxS, () => p.plan.stages(), reps);
+  if (r.labels.some((l, i) => l !== p.data.labels[i])) throw new Error('zero-phase epochs do not match the recipe trials');
+  return r.accuracy;
 }
 
 if (process.argv.includes('--zero-phase')) {

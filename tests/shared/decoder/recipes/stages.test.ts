@@ -86,8 +86,15 @@ describe.each(['linear', 'log'] as const)('whitened covariance features, %s map'
     // unchanged); solver tolerance limits agreement.
     expectAllClose(p2, p1, { atol: 1e-5 });
   });
+});
 
-  it('apply the matrix logarithm to the whitened covariance with the log map', () => {
+describe('the log covariance map', () => {
+  const rec = syntheticRecording({ seed: 8, trials: 30 });
+  const plan = planRecipe({ recipe: 'covariance' }, rec.sampleRateHz, rec.channelNames);
+  const e = epochRecording(preprocessRecording(plan.preprocess, rec), { classes: ['left', 'right'] }, 0.5, 2.5);
+  const train = e.epochs.slice(0, 24), test = e.epochs.slice(24);
+
+  it('applies the matrix logarithm to the whitened covariance', () => {
     const lin = whitenedCovarianceStage({ map: 'linear' }).fit(train) as unknown as { whitening: Float64Array[]; centre: Float64Array; scale: number; transform: (x: typeof train) => { features: { x: Float64Array } } };
     const log = whitenedCovarianceStage({ map: 'log' }).fit(train) as unknown as typeof lin;
     const r = lin.whitening.length;
